@@ -1,0 +1,46 @@
+import { useState, type SubmitEvent } from 'react';
+import { signInInput } from '../../../lib/auth/schema';
+import { api } from '../ui/api';
+import { Field, FormError } from '../ui/Field';
+import { validate } from '../ui/form';
+
+/** Where to go after sign-in: only a path on this site. */
+function safeNext(next: string | null): string {
+  return next && next.startsWith('/') && !next.startsWith('//') ? next : '/';
+}
+
+export default function SignInForm({ next }: { next: string | null }) {
+  const [values, setValues] = useState({ email: '', password: '' });
+  const [fields, setFields] = useState<Record<string, string>>({});
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+
+  async function submit(e: SubmitEvent) {
+    e.preventDefault();
+    setError(null);
+    const v = validate(signInInput, values);
+    if (!v.ok) return setFields(v.fields);
+    setFields({});
+    setBusy(true);
+    const r = await api('/api/auth/sign-in/email', { body: v.data });
+    if (r.ok) {
+      window.location.href = safeNext(next);
+      return;
+    }
+    setBusy(false);
+    setError(r.error.status === 429 ? 'Too many attempts. Wait a minute and try again.' : r.error.status === 401 ? 'That e-mail and password do not match an account.' : r.error.message);
+  }
+
+  return (
+    <form onSubmit={submit} noValidate className="space-y-4" data-testid="sign-in-form">
+      <FormError message={error} />
+      <Field id="email" label="E-mail" error={fields.email}>
+        {(p) => <input {...p} type="email" autoComplete="username" value={values.email} onChange={(e) => setValues({ ...values, email: e.target.value })} />}
+      </Field>
+      <Field id="password" label="Password" error={fields.password}>
+        {(p) => <input {...p} type="password" autoComplete="current-password" value={values.password} onChange={(e) => setValues({ ...values, password: e.target.value })} />}
+      </Field>
+      <button type="submit" className="btn-primary w-full" disabled={busy}>{busy ? 'Signing in…' : 'Sign in'}</button>
+    </form>
+  );
+}

@@ -1,0 +1,72 @@
+import { useState, type SubmitEvent } from 'react';
+import { settingsInput, TAX_MODES, TAX_MODE_LABELS, type CompanySettings } from '../../../lib/settings/schema';
+import { api } from '../ui/api';
+import { Field, FormError } from '../ui/Field';
+import { validate } from '../ui/form';
+
+const TEXT_KEYS = ['addressLine', 'city', 'region', 'postalCode', 'phone', 'email', 'licenseNumber'] as const;
+
+export default function SettingsForm({ initial }: { initial: CompanySettings }) {
+  const [v, setV] = useState<Record<string, string>>(() => ({
+    currency: initial.currency,
+    paymentTermsDays: String(initial.paymentTermsDays),
+    targetMarginPct: String(initial.targetMarginPct),
+    labourBurdenPct: String(initial.labourBurdenPct),
+    taxMode: initial.taxMode,
+    taxRatePct: String(initial.taxRatePct),
+    bidRoundingDollars: String(initial.bidRoundingCents / 100),
+    ...Object.fromEntries(TEXT_KEYS.map((k) => [k, initial[k] ?? ''])),
+  }));
+  const [fields, setFields] = useState<Record<string, string>>({});
+  const [error, setError] = useState<string | null>(null);
+  const [saved, setSaved] = useState(false);
+  const set = (k: string) => (e: { target: { value: string } }) => { setSaved(false); setV({ ...v, [k]: e.target.value }); };
+
+  async function submit(e: SubmitEvent) {
+    e.preventDefault();
+    const { bidRoundingDollars, ...rest } = v;
+    const values = { ...rest, bidRoundingCents: Math.round(Number(bidRoundingDollars) * 100) };
+    const r0 = validate(settingsInput, values);
+    if (!r0.ok) { setFields({ ...r0.fields, bidRoundingDollars: r0.fields.bidRoundingCents ?? '' }); return; }
+    setFields({});
+    const r = await api('/api/settings', { method: 'PATCH', body: r0.data });
+    if (r.ok) { setSaved(true); setError(null); } else { setError(r.error.message); setFields(r.error.fields ?? {}); }
+  }
+
+  const input = (k: string, label: string, hint?: string, type = 'text') => (
+    <Field id={k} label={label} error={fields[k]} hint={hint}>{(p) => <input {...p} type={type} value={v[k]} onChange={set(k)} />}</Field>
+  );
+
+  return (
+    <form onSubmit={submit} noValidate className="space-y-6">
+      <FormError message={error} />
+      {saved && <p role="status" className="rounded-md bg-moss-100 px-3 py-2 text-sm text-moss-700">Settings saved.</p>}
+      <section className="grid gap-4 sm:grid-cols-3">
+        <Field id="currency" label="Currency" error={fields.currency}>
+          {(p) => <select {...p} value={v.currency} onChange={set('currency')}><option value="USD">US dollar</option><option value="CAD">Canadian dollar</option></select>}
+        </Field>
+        {input('paymentTermsDays', 'Payment terms (days)', '0 means due on receipt.', 'number')}
+        {input('targetMarginPct', 'Target gross margin (%)', 'Bids are priced to this margin unless the estimator changes it.', 'number')}
+        {input('labourBurdenPct', 'Labour burden (%)', 'Payroll taxes, workers\' compensation, insurance and benefits on top of wages.', 'number')}
+        <Field id="taxMode" label="Sales tax on invoices" error={fields.taxMode}>
+          {(p) => <select {...p} value={v.taxMode} onChange={set('taxMode')}>{TAX_MODES.map((m) => <option key={m} value={m}>{TAX_MODE_LABELS[m]}</option>)}</select>}
+        </Field>
+        {input('taxRatePct', 'Sales tax rate (%)', undefined, 'number')}
+        {input('bidRoundingDollars', 'Round bid prices to the nearest ($)', 'e.g. 5 rounds $4,321.40 to $4,320.', 'number')}
+      </section>
+      <section>
+        <h2 className="mb-2">On invoices and bids</h2>
+        <div className="grid gap-4 sm:grid-cols-3">
+          {input('addressLine', 'Street')}
+          {input('city', 'Town')}
+          {input('region', 'State')}
+          {input('postalCode', 'ZIP')}
+          {input('phone', 'Phone')}
+          {input('email', 'E-mail')}
+          {input('licenseNumber', 'Contractor licence number')}
+        </div>
+      </section>
+      <button className="btn-primary" type="submit">Save settings</button>
+    </form>
+  );
+}

@@ -1,0 +1,11 @@
+/// <reference path="../.astro/types.d.ts" />
+
+declare namespace App {
+  interface Locals {
+    user: { id: string; name: string; email: string } | null;
+    sessionId: string | null;
+    company: { id: string; name: string; slug: string } | null;
+    role: import('./lib/auth/permissions').Role | null;
+    memberships: import('./server/auth/session').Membership[];
+  }
+}

@@ -1,0 +1,30 @@
+import { dinero, toDecimal, type Dinero } from 'dinero.js';
+import { USD, CAD } from 'dinero.js/currencies';
+
+const CURRENCIES = { USD, CAD } as const;
+export type CurrencyCode = keyof typeof CURRENCIES;
+
+/** Integer minor units → Dinero in the company's currency. */
+export function money(cents: number, currency: CurrencyCode = 'USD'): Dinero<number> {
+  if (!Number.isSafeInteger(cents)) throw new Error(`money needs integer cents, got ${cents}`);
+  return dinero({ amount: cents, currency: CURRENCIES[currency] });
+}
+
+/** Display only: $1,234.56. */
+export function formatMoney(cents: number | null | undefined, currency: CurrencyCode = 'USD'): string {
+  if (cents === null || cents === undefined) return '—';
+  return toDecimal(money(cents, currency), ({ value, currency: c }) =>
+    new Intl.NumberFormat('en-US', { style: 'currency', currency: c.code }).format(Number(value)),
+  );
+}
+
+export function formatDate(iso: string | null | undefined): string {
+  if (!iso) return '—';
+  const d = new Date(iso.length === 10 ? `${iso}T00:00:00Z` : iso);
+  return new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' }).format(d);
+}
+
+export function formatPct(value: number | null | undefined, digits = 1): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  return `${value.toFixed(digits)} %`;
+}

@@ -1,0 +1,19 @@
+import { route } from '../../../server/http.ts';
+import { roleInput } from '../../../lib/auth/schema.ts';
+import { changeRole, removeMember } from '../../../server/services/members.ts';
+import { notFound } from '../../../lib/errors.ts';
+
+function memberId(v: string | undefined): string {
+  if (!v || v.length > 36) throw notFound('That member');
+  return v;
+}
+
+export const PATCH = route({
+  access: 'members:manage',
+  body: roleInput,
+  handle: ({ ctx, actor, params, body }) => changeRole(actor, ctx.request.headers, memberId(params.id), body.role),
+});
+export const DELETE = route({
+  access: 'members:manage',
+  handle: ({ ctx, actor, params }) => removeMember(actor, ctx.request.headers, memberId(params.id)),
+});

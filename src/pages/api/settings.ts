@@ -1,0 +1,10 @@
+import { route } from '../../server/http.ts';
+import { settingsInput } from '../../lib/settings/schema.ts';
+import { getSettings, updateSettings } from '../../server/services/settings.ts';
+
+export const GET = route({ access: 'settings:read', handle: ({ actor }) => getSettings(actor) });
+export const PATCH = route({
+  access: 'settings:write',
+  body: settingsInput.partial(),
+  handle: ({ actor, body }) => updateSettings(actor, body),
+});

@@ -1,0 +1,44 @@
+import type { Knex } from 'knex';
+import { db } from '../db.ts';
+import type { CompanySettings, SettingsInput } from '../../lib/settings/schema.ts';
+
+type Q = Knex | Knex.Transaction;
+
+const COLUMNS: Record<keyof SettingsInput, string> = {
+  currency: 'currency',
+  paymentTermsDays: 'payment_terms_days',
+  targetMarginPct: 'target_margin_pct',
+  labourBurdenPct: 'labour_burden_pct',
+  taxMode: 'tax_mode',
+  taxRatePct: 'tax_rate_pct',
+  bidRoundingCents: 'bid_rounding_cents',
+  addressLine: 'address_line',
+  city: 'city',
+  region: 'region',
+  postalCode: 'postal_code',
+  phone: 'phone',
+  email: 'email',
+  licenseNumber: 'license_number',
+};
+const NUMERIC = new Set(['targetMarginPct', 'labourBurdenPct', 'taxRatePct']);
+
+export async function getSettings(companyId: string, q: Q = db()): Promise<CompanySettings> {
+  const r = await q('company_settings as s')
+    .join('organization as o', 'o.id', 's.organization_id')
+    .where('s.organization_id', companyId)
+    .first('s.*', 'o.name as company_name');
+  if (!r) throw new Error(`company ${companyId} has no settings row`);
+  const out: Record<string, unknown> = { organizationId: companyId, companyName: r.company_name };
+  for (const [key, col] of Object.entries(COLUMNS)) out[key] = NUMERIC.has(key) ? Number(r[col]) : r[col] ?? null;
+  return out as unknown as CompanySettings;
+}
+
+export async function ensureSettings(companyId: string, q: Q = db()): Promise<void> {
+  await q('company_settings').insert({ organization_id: companyId }).onConflict('organization_id').ignore();
+}
+
+export async function updateSettings(companyId: string, input: Partial<SettingsInput>, q: Q = db()): Promise<void> {
+  const row: Record<string, unknown> = {};
+  for (const [key, col] of Object.entries(COLUMNS)) if (key in input) row[col] = (input as Record<string, unknown>)[key];
+  await q('company_settings').where('organization_id', companyId).update({ ...row, updated_at: q.fn.now(3) });
+}

@@ -1,0 +1,108 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { closeBrowser, hydrated, launch, shot, signIn, watchConsole } from '../setup/browser';
+import { stack } from '../setup/stack';
+
+let browser: Browser;
+const base = () => stack().appUrl;
+
+beforeAll(async () => { browser = await launch(); });
+afterAll(async () => { await closeBrowser(browser); });
+
+const ROLES = [
+  { email: 'owner@example.com', label: 'Owner', sees: ['Dashboard', 'Jobs', 'Customers', 'Members', 'Company settings'], hidden: [] as string[] },
+  { email: 'bookkeeper@example.com', label: 'Bookkeeper', sees: ['Dashboard', 'Jobs', 'Customers'], hidden: ['Members', 'Company settings'] },
+  { email: 'estimator@example.com', label: 'Estimator', sees: ['Dashboard', 'Jobs', 'Customers'], hidden: ['Members', 'Company settings'] },
+  { email: 'crew@example.com', label: 'Crew lead', sees: ['Dashboard', 'Jobs'], hidden: ['Customers', 'Members', 'Company settings'] },
+];
+
+describe('signing in as each role', () => {
+  for (const role of ROLES) {
+    it(`${role.label} sees their navigation`, async () => {
+      const ctx = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+      const page = await signIn(ctx, base(), role.email, stack().demoPassword);
+      const problems = watchConsole(page);
+      await expect.poll(() => page.getByTestId('whoami').textContent()).toContain(role.label);
+      const nav = page.getByTestId('main-nav').locator('.hidden.md\\:block');
+      for (const label of role.sees) expect(await nav.getByRole('link', { name: label, exact: true }).count(), label).toBe(1);
+      for (const label of role.hidden) expect(await nav.getByRole('link', { name: label, exact: true }).count(), label).toBe(0);
+      await shot(page, `role-${role.label.toLowerCase().replace(' ', '-')}-dashboard`);
+      await page.goto(`${base()}/jobs`);
+      await page.getByTestId('jobs-total').waitFor();
+      await shot(page, `role-${role.label.toLowerCase().replace(' ', '-')}-jobs`);
+      expect(problems.filter((p) => /Content Security Policy|Refused/.test(p))).toEqual([]);
+      await ctx.close();
+    });
+  }
+
+  it('a crew lead on a phone reads the jobs as cards', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await signIn(ctx, base(), 'crew@example.com', stack().demoPassword);
+    await page.goto(`${base()}/jobs`);
+    await page.getByRole('list', { name: 'Jobs' }).waitFor();
+    expect(await page.getByRole('list', { name: 'Jobs' }).locator('li').count()).toBeGreaterThan(0);
+    await shot(page, 'phone-crew-jobs');
+    await ctx.close();
+  });
+
+  it('refuses a wrong password with a clear message', async () => {
+    const ctx = await browser.newContext();
+    const page = await ctx.newPage();
+    await page.goto(`${base()}/sign-in`);
+    await hydrated(page);
+    await page.getByLabel('E-mail').fill('estimator@example.com');
+    await page.getByLabel('Password').fill('not-the-password');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await expect.poll(() => page.getByRole('alert').first().textContent()).toContain('do not match');
+    await ctx.close();
+  });
+});
+
+describe('jobs through the form', () => {
+  it('an estimator fails validation, sees the field error, then creates a job and finds it in the table', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await signIn(ctx, base(), 'estimator@example.com', stack().demoPassword);
+    const problems = watchConsole(page);
+    await page.goto(`${base()}/jobs/new`);
+    await hydrated(page);
+    await page.getByRole('button', { name: 'Create the job' }).click();
+    const titleError = page.locator('#title-error');
+    await titleError.waitFor();
+    expect(await titleError.textContent()).toContain('short title');
+    expect(await page.locator('#customerId-error').textContent()).toContain('Choose the customer');
+    await shot(page, 'job-form-errors');
+
+    const title = `Cedar privacy ${Date.now().toString(36)}`;
+    await page.getByLabel('Title').fill(title);
+    await page.getByLabel('Customer').selectOption({ index: 1 });
+    await page.getByLabel('Fence style').selectOption({ label: 'Wood privacy 6 ft' });
+    await page.getByLabel('Street').fill('77 Heron Ln');
+    await Promise.all([page.waitForURL(/\/jobs\/\d+$/), page.getByRole('button', { name: 'Create the job' }).click()]);
+    expect(await page.getByTestId('job-title').textContent()).toBe(title);
+    await shot(page, 'job-created');
+
+    await page.goto(`${base()}/jobs`);
+    await hydrated(page);
+    await page.getByPlaceholder('Job code, title, customer, street or town').fill(title);
+    await expect.poll(() => page.getByTestId('jobs-total').textContent(), { timeout: 10_000 }).toBe('1 job');
+    expect(await page.getByRole('cell', { name: title }).count()).toBe(1);
+    await shot(page, 'jobs-search');
+    expect(problems.filter((p) => /Content Security Policy|Refused/.test(p))).toEqual([]);
+    await ctx.close();
+  });
+
+  it('sorts and filters the table', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await signIn(ctx, base(), 'owner@example.com', stack().demoPassword);
+    await page.goto(`${base()}/jobs`);
+    await hydrated(page);
+    await page.locator('fieldset').getByText('Closed', { exact: true }).click();
+    await expect.poll(() => page.url()).toContain('status=closed');
+    const pills = await page.locator('tbody .pill').allTextContents();
+    expect(pills.length).toBeGreaterThan(0);
+    expect(new Set(pills)).toEqual(new Set(['Closed']));
+    await page.getByRole('button', { name: /^Customer/ }).click();
+    await expect.poll(() => page.url()).toContain('sort=customer');
+    await ctx.close();
+  });
+});

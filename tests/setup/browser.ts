@@ -1,0 +1,57 @@
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+
+const SHOTS = path.resolve(path.dirname(new URL(import.meta.url).pathname), '../../reports/screenshots');
+
+let dataDir: string | undefined;
+
+/** Debian's Chromium, headless, with no network chatter of its own. Never a downloaded browser. */
+export async function launch(): Promise<Browser> {
+  dataDir = mkdtempSync(path.join(os.tmpdir(), 'tallypost-chromium-'));
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: [
+      '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage',
+    ],
+  });
+}
+
+export async function closeBrowser(b: Browser | undefined): Promise<void> {
+  await b?.close();
+  if (dataDir) rmSync(dataDir, { recursive: true, force: true });
+}
+
+/** Saves a screenshot under reports/screenshots for people to look at. */
+export async function shot(page: Page, name: string): Promise<void> {
+  mkdirSync(SHOTS, { recursive: true });
+  await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
+}
+
+/** Collects console errors and CSP violations, which a page must not produce. */
+export function watchConsole(page: Page): string[] {
+  const problems: string[] = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error') problems.push(m.text());
+  });
+  page.on('pageerror', (e) => problems.push(e.message));
+  return problems;
+}
+
+/** Waits until every island on the page has hydrated (Astro drops the ssr attribute). */
+export async function hydrated(page: Page): Promise<void> {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 15_000 });
+}
+
+export async function signIn(context: BrowserContext, baseUrl: string, email: string, password: string): Promise<Page> {
+  const page = await context.newPage();
+  await page.goto(`${baseUrl}/sign-in`);
+  await hydrated(page);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await Promise.all([page.waitForURL(`${baseUrl}/`), page.getByRole('button', { name: 'Sign in' }).click()]);
+  return page;
+}
