@@ -154,4 +154,39 @@ export async function seedDemoCompany(knex: Knex, password: string, today = new 
     });
   }
   await knex('company_settings').where('organization_id', DEMO.orgId).update({ next_job_number: 161 });
+  await seedInterimEstimates(knex, r);
+}
+
+/** Rough dollars per linear foot by style, for the interim contract prices below. */
+const PRICE_PER_FOOT: Record<string, number> = { wood_privacy: 42, split_rail: 22, wire_panel: 34, chain_link: 26, vinyl: 48, ornamental: 58 };
+/** Share of cost by category for a typical residential fence (common practice, no source). */
+const COST_SHARES: [string, number][] = [['material', 0.52], ['labour', 0.38], ['rental', 0.05], ['permit', 0.02], ['disposal', 0.03]];
+
+/**
+ * Every won job gets a contract price and an estimated cost by category, so costing and
+ * billing have something to stand on. The bids seed replaces both with what the accepted
+ * bid priced.
+ */
+async function seedInterimEstimates(knex: Knex, r: ReturnType<typeof rng>): Promise<void> {
+  const jobs = await knex('jobs as j')
+    .join('fence_styles as s', 's.id', 'j.fence_style_id')
+    .where('j.organization_id', DEMO.orgId)
+    .whereIn('j.status', ['won', 'building', 'completed', 'closed'])
+    .orderBy('j.id')
+    .select('j.id', 's.kind');
+  const rows: Record<string, unknown>[] = [];
+  for (const job of jobs) {
+    const feet = r.int(80, 420);
+    const contract = Math.round((feet * (PRICE_PER_FOOT[job.kind] ?? 35) * 100) / 500) * 500;
+    const cost = Math.round(contract * 0.68);
+    await knex('jobs').where('id', job.id).update({ contract_cents: contract });
+    // The last category takes the remainder, so the parts sum exactly to the cost.
+    let left = cost;
+    COST_SHARES.forEach(([category, share], i) => {
+      const amount = i === COST_SHARES.length - 1 ? left : Math.round(cost * share);
+      left -= amount;
+      rows.push({ organization_id: DEMO.orgId, job_id: job.id, category, amount_cents: amount, source: 'bid' });
+    });
+  }
+  if (rows.length) await knex('job_estimates').insert(rows);
 }
