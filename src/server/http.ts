@@ -41,7 +41,7 @@ export function handleError(err: unknown): Response {
   return errorResponse('INTERNAL', 'Something went wrong on our side. It has been logged.');
 }
 
-type Access = Action | 'signed-in' | 'public';
+export type Access = Action | 'signed-in' | 'public';
 
 interface RouteDef<B extends z.ZodType | undefined, Q extends z.ZodType | undefined> {
   /** The permission checked before the body is read. */
@@ -113,8 +113,12 @@ export function actorOf(ctx: APIContext, access: Access): Actor | AppError {
  * service call. Permission is checked before the body is read, so a crew lead posting to
  * a route it may not use gets 403 whatever it sent.
  */
-export function route<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined>(def: RouteDef<B, Q>): APIRoute {
-  return async (ctx) => {
+export type DeclaredRoute = APIRoute & { access: Access };
+
+export function route<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined>(def: RouteDef<B, Q>): DeclaredRoute {
+  // The access travels with the handler, so the permission-matrix test can read every
+  // endpoint's declaration and check the server answers it.
+  return Object.assign(async (ctx: APIContext) => {
     try {
       const actor = actorOf(ctx, def.access);
       if (actor instanceof AppError) throw actor;
@@ -144,7 +148,7 @@ export function route<B extends z.ZodType | undefined = undefined, Q extends z.Z
     } catch (err) {
       return handleError(err);
     }
-  };
+  }, { access: def.access });
 }
 
 /** A positive integer id from a route parameter, or a 404 (never a 500 for '/jobs/abc'). */

@@ -1,0 +1,121 @@
+import { beforeAll, describe, expect, it } from 'vitest';
+import { ROLES, can, type Action, type Role } from '../../../src/lib/auth/permissions';
+import { Client } from '../../setup/client';
+import { makeCompany, makeCustomer, makeJob, uniqueEmail, type TestCompany } from '../../setup/factory';
+import { apiRoutes, type ApiRoute, type Method } from '../../setup/routes';
+
+/**
+ * Every API route × every role, plus signed out and a member of another company, against
+ * the role × action table. Routes are read from src/pages/api, so a new one cannot be
+ * forgotten: one that takes ids needs an entry in FIXTURES, one without a declared access
+ * needs an entry in UNDECLARED.
+ */
+type Params = Record<string, string>;
+interface Fixture {
+  /** The ids to put in the path; called again for each request that changes data. */
+  params: (co: TestCompany) => Promise<Params>;
+}
+
+const FIXTURES: Record<string, Fixture> = {
+  '/api/jobs/[id]': { params: async (co) => ({ id: String(await assignedJob(co)) }) },
+  '/api/customers/[id]': { params: async (co) => ({ id: String((await makeCustomer(co.owner)).id) }) },
+  '/api/members/[id]': {
+    params: async (co) => {
+      const email = uniqueEmail('probe');
+      const { joinAs } = await import('../../setup/factory');
+      await joinAs(co.owner, co.id, 'crew_lead', email);
+      const list = await co.owner.get('/api/members');
+      return { id: list.body.members.find((m: { email: string }) => m.email === email).memberId };
+    },
+  },
+  '/api/members/invitations/[id]': {
+    params: async (co) => ({ id: (await co.owner.post('/api/members/invitations', { email: uniqueEmail('inv'), role: 'estimator' })).body.id }),
+  },
+};
+
+/** Routes that are not declared with route(), and why. They are checked by their own tests. */
+const UNDECLARED: Record<string, string> = {
+  '/api/health': 'public health check (tests/api/health-and-schema.test.ts)',
+  '/api/auth/[...all]': "better-auth's own routes (tests/api/auth.test.ts)",
+  '/api/[...rest]': 'JSON 404 for unknown API paths',
+  '/api/stripe/webhook': 'signed by Stripe; verified by signature (webhook tests)',
+};
+
+async function assignedJob(co: TestCompany): Promise<number> {
+  const customer = await makeCustomer(co.owner);
+  return (await makeJob(co.owner, customer.id, { crewLeadUserId: co.userIds.crew_lead })).id;
+}
+
+const MUTATING = new Set<Method>(['POST', 'PUT', 'PATCH', 'DELETE']);
+
+function fill(pattern: string, params: Params): string {
+  return pattern.replace(/\[(\w+)\]/g, (_, k: string) => encodeURIComponent(params[k] ?? 'missing'));
+}
+
+async function call(client: Client, method: Method, path: string) {
+  if (method === 'GET') return client.get(path);
+  // A body no strict schema accepts: an allowed caller gets 400 and nothing changes.
+  return client.request(method, path, { json: { __matrixProbe: true } });
+}
+
+let a: TestCompany;
+let b: TestCompany;
+let routes: ApiRoute[];
+
+beforeAll(async () => {
+  [a, b] = await Promise.all([makeCompany(), makeCompany()]);
+  routes = await apiRoutes();
+}, 180_000);
+
+describe('permissions matrix', () => {
+  it('has a fixture for every route with ids and a declaration for every handler', () => {
+    for (const r of routes) {
+      const undeclared = r.methods.filter((m) => m.access === null);
+      if (undeclared.length) expect(UNDECLARED[r.pattern], `${r.pattern} has handlers without route(): declare them or list it in UNDECLARED`).toBeTruthy();
+      if (/\[\w+\]/.test(r.pattern) && !UNDECLARED[r.pattern]) expect(FIXTURES[r.pattern], `${r.pattern} takes ids: add it to FIXTURES`).toBeTruthy();
+    }
+  });
+
+  it('answers every route as the role × action table says', async () => {
+    const rows: string[] = [];
+    let checks = 0;
+    const mismatches: string[] = [];
+    const signedOut = new Client();
+    for (const r of routes) {
+      if (UNDECLARED[r.pattern]) continue;
+      const hasIds = /\[\w+\]/.test(r.pattern);
+      for (const { method, access } of r.methods) {
+        if (!access) continue;
+        const fixture = FIXTURES[r.pattern];
+        let shared: Params = hasIds ? await fixture.params(a) : {};
+        const pathFor = async () => (hasIds && MUTATING.has(method) ? fill(r.pattern, await fixture.params(a)) : fill(r.pattern, shared));
+        const expectStatus = (who: string, status: number, allowed: boolean | 'public', want404 = false) => {
+          checks++;
+          let ok: boolean;
+          if (want404) ok = status === 404;
+          else if (allowed === 'public' || allowed) ok = status !== 401 && status !== 403 && status < 500;
+          else ok = who === 'signed out' ? status === 401 : status === 403;
+          if (!ok) mismatches.push(`${method} ${r.pattern} as ${who}: got ${status}`);
+        };
+        // Another company's member first: for ids of company A the answer is 404.
+        if (access !== 'public') {
+          const p = hasIds ? await pathFor() : fill(r.pattern, shared);
+          const res = await call(b.owner, method, p);
+          const ownerMay = access === 'signed-in' || can('owner', access as Action);
+          expectStatus('member of another company', res.status, ownerMay, hasIds && ownerMay);
+        }
+        for (const role of ROLES as readonly Role[]) {
+          const allowed = access === 'public' || access === 'signed-in' || can(role, access as Action);
+          const res = await call(a.as(role), method, allowed ? await pathFor() : fill(r.pattern, shared));
+          expectStatus(role, res.status, allowed);
+        }
+        const res = await call(signedOut, method, fill(r.pattern, shared));
+        expectStatus('signed out', res.status, access === 'public' ? 'public' : false);
+        rows.push(`${method.padEnd(6)} ${r.pattern} (${access})`);
+        shared = {};
+      }
+    }
+    console.log(`permissions matrix: ${rows.length} route methods × 6 callers = ${checks} checks, ${mismatches.length} mismatches`);
+    expect(mismatches).toEqual([]);
+  }, 600_000);
+});
