@@ -1,6 +1,7 @@
 import { defineMiddleware } from 'astro:middleware';
 import { identify } from './server/auth/session.ts';
 import { errorResponse, isDbDown } from './server/http.ts';
+import { databaseUp } from './server/db.ts';
 import { env } from './server/env.ts';
 
 /** Pages and endpoints anyone may open. */
@@ -79,7 +80,8 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
     const who = await identify(request.headers);
     Object.assign(ctx.locals, who);
   } catch (err) {
-    if (isDbDown(err)) {
+    // better-auth may wrap the driver's error beyond recognition: ask the database itself.
+    if (isDbDown(err) || !(await databaseUp())) {
       return securityHeaders(isApi ? errorResponse('DB_DOWN', 'The database is not reachable right now. Try again in a moment.') : dbDownPage());
     }
     throw err;
@@ -101,7 +103,7 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
   try {
     return securityHeaders(await next());
   } catch (err) {
-    if (isDbDown(err)) return securityHeaders(isApi ? errorResponse('DB_DOWN', 'The database is not reachable right now.') : dbDownPage());
+    if (isDbDown(err) || !(await databaseUp())) return securityHeaders(isApi ? errorResponse('DB_DOWN', 'The database is not reachable right now.') : dbDownPage());
     throw err;
   }
 });

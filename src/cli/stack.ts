@@ -158,6 +158,7 @@ async function main(): Promise<void> {
     demoPassword: demoPassword(),
     appEnv: Object.fromEntries(Object.entries(appEnv).filter(([k]) => /^(DATABASE_URL|APP_URL|AUTH_SECRET|SMTP_|STRIPE_|SIGN_IN_|NODE_ENV|ASTRO_|TALLYPOST_BUILD_DIR|MAIL_FROM)/.test(k))),
     mariadb: maria ? { port: maria.port, socket: maria.socket, pidFile: maria.pidFile, dataDir: maria.dataDir } : null,
+    pids: { app: app.child.pid, worker: worker.child.pid },
   };
   writeFileSync(path.join(dataRoot, 'stack.json'), JSON.stringify(stack, null, 2));
 
@@ -195,37 +196,45 @@ async function main(): Promise<void> {
   });
 }
 
-/** Runs vitest over the suite and prints the counts as the last line. */
+const PROJECTS = ['unit', 'api', 'e2e', 'faults'];
+
+/**
+ * Runs the suite one vitest project at a time (the fault tests stop the database and kill
+ * app processes, so nothing may run beside them) and prints the counts as the last line.
+ */
 async function runSuite(stackFile: string, appEnv: NodeJS.ProcessEnv): Promise<number> {
-  const results = path.join(root, 'reports', 'test-results.json');
-  mkdirSync(path.dirname(results), { recursive: true });
-  rmSync(results, { force: true });
-  const args = [
-    path.join(root, 'node_modules/vitest/vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts',
-    '--reporter=default', '--reporter=json', `--outputFile.json=${results}`,
-    ...(only ? ['--project', only] : []),
-    ...passThrough,
-  ];
-  const code = await new Promise<number>((resolve) => {
-    const child = spawn(process.execPath, args, {
-      cwd: root,
-      stdio: 'inherit',
-      env: { ...process.env, ...appEnv, NODE_ENV: 'test', TALLYPOST_STACK: stackFile },
-    });
-    child.on('exit', (c) => resolve(c ?? 1));
-  });
+  mkdirSync(path.join(root, 'reports'), { recursive: true });
   let passed = 0;
   let failed = 0;
-  if (existsSync(results)) {
-    const r = JSON.parse(readFileSync(results, 'utf8')) as { numPassedTests: number; numFailedTests: number; numTotalTestSuites: number; testResults: { status: string }[] };
-    passed = r.numPassedTests;
-    // A file that fails to load counts as a failure even though it ran no test.
-    failed = r.numFailedTests + r.testResults.filter((t) => t.status === 'failed' && !('assertionResults' in t && (t as { assertionResults: unknown[] }).assertionResults.length)).length;
-  } else {
-    failed = 1;
+  let exit = 0;
+  for (const project of only ? [only] : PROJECTS) {
+    const results = path.join(root, 'reports', `test-results-${project}.json`);
+    rmSync(results, { force: true });
+    const args = [
+      path.join(root, 'node_modules/vitest/vitest.mjs'), 'run', '--config', 'tests/vitest.config.ts', '--project', project,
+      '--reporter=default', '--reporter=json', `--outputFile.json=${results}`, '--passWithNoTests',
+      ...passThrough,
+    ];
+    const code = await new Promise<number>((resolve) => {
+      const child = spawn(process.execPath, args, {
+        cwd: root,
+        stdio: 'inherit',
+        env: { ...process.env, ...appEnv, NODE_ENV: 'test', TALLYPOST_STACK: stackFile },
+      });
+      child.on('exit', (c) => resolve(c ?? 1));
+    });
+    if (existsSync(results)) {
+      const r = JSON.parse(readFileSync(results, 'utf8')) as { numPassedTests: number; numFailedTests: number; testResults: { status: string; assertionResults: unknown[] }[] };
+      passed += r.numPassedTests;
+      // A file that fails to load ran no test but is a failure all the same.
+      failed += r.numFailedTests + r.testResults.filter((t) => t.status === 'failed' && t.assertionResults.length === 0).length;
+    } else if (code !== 0) {
+      failed += 1;
+    }
+    if (code !== 0) exit = 1;
   }
   console.log(`${passed} passed, ${failed} failed`);
-  return code !== 0 || failed > 0 ? 1 : 0;
+  return exit !== 0 || failed > 0 ? 1 : 0;
 }
 
 for (const sig of ['SIGINT', 'SIGTERM'] as const) {

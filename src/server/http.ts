@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { AppError, ERROR_STATUS, fieldErrors, type ErrorCode, type FieldErrors } from '../lib/errors.ts';
 import { can, type Action, type Role } from '../lib/auth/permissions.ts';
 import { env } from './env.ts';
+import { databaseUp } from './db.ts';
 
 /** Who is asking, in which company: the first argument of every service. */
 export interface Actor {
@@ -22,19 +23,25 @@ export function errorResponse(code: ErrorCode, message: string, fields?: FieldEr
   return json({ error: { code, message, ...(fields ? { fields } : {}) } }, ERROR_STATUS[code]);
 }
 
-/** True for the errors mysql2/knex raise when MariaDB cannot be reached. */
+const DOWN_CODES = ['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ECONNRESET', 'EPIPE', 'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR', 'ECONNABORTED'];
+const DOWN_MESSAGE = /Knex: Timeout acquiring a connection|connect ECONNREFUSED|Connection lost|closed state|server has gone away|shutdown in progress/i;
+
+/**
+ * True for the errors mysql2, Knex and better-auth (which wraps them) raise when MariaDB
+ * cannot be reached; follows the cause chain.
+ */
 export function isDbDown(err: unknown): boolean {
-  const code = (err as { code?: string } | null)?.code ?? '';
-  const msg = err instanceof Error ? err.message : '';
-  return (
-    ['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ECONNRESET', 'EPIPE', 'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR'].includes(code) ||
-    /Knex: Timeout acquiring a connection|connect ECONNREFUSED|Connection lost|closed state/i.test(msg)
-  );
+  for (let e = err, depth = 0; e && depth < 6; e = (e as { cause?: unknown }).cause, depth++) {
+    const code = (e as { code?: string }).code ?? '';
+    const msg = e instanceof Error ? e.message : typeof e === 'string' ? e : '';
+    if (DOWN_CODES.includes(code) || DOWN_MESSAGE.test(msg)) return true;
+  }
+  return false;
 }
 
-export function handleError(err: unknown): Response {
+export async function handleError(err: unknown): Promise<Response> {
   if (err instanceof AppError) return errorResponse(err.code, err.message, err.fields);
-  if (isDbDown(err)) return errorResponse('DB_DOWN', 'The database is not reachable right now. Try again in a moment.');
+  if (isDbDown(err) || !(await databaseUp())) return errorResponse('DB_DOWN', 'The database is not reachable right now. Try again in a moment.');
   const code = (err as { code?: string } | null)?.code;
   if (code === 'ER_DUP_ENTRY') return errorResponse('CONFLICT', 'That record already exists.');
   console.error('[api] unexpected error', err);

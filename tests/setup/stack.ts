@@ -14,6 +14,7 @@ export interface Stack {
   demoPassword: string;
   appEnv: Record<string, string>;
   mariadb: { port: number; socket: string; pidFile: string; dataDir: string } | null;
+  pids: { app: number; worker: number };
 }
 
 let cached: Stack | undefined;

@@ -19,7 +19,8 @@ export function registerPeriodic(job: Job): void {
   periodic.push(job);
 }
 
-const LOCK_SECONDS = 120;
+/** How long a claimed mail stays with its worker before another may retry it. */
+const LOCK_SECONDS = Number(process.env.OUTBOX_LOCK_SECONDS ?? 120);
 const MAX_ATTEMPTS = 8;
 const workerId = `${os.hostname()}:${process.pid}`;
 
@@ -66,6 +67,8 @@ async function releaseStale(k: Knex): Promise<void> {
 }
 
 async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
+  // Fault injection for the crash tests: die between claiming a mail and sending it.
+  if (process.env.TALLYPOST_FAULT === 'outbox-after-claim') process.exit(137);
   try {
     const refs = JSON.parse(row.attachments || '[]') as AttachmentRef[];
     const attachments = [];
