@@ -47,7 +47,7 @@ export async function backup(file?: string): Promise<string> {
   try {
     const gzip = out.endsWith('.gz') ? createGzip() : null;
     const sink = createWriteStream(out);
-    const done = gzip ? pipeline(gzip, sink) : new Promise((r) => sink.on('finish', r));
+    const done = gzip ? pipeline(gzip, sink) : new Promise<void>((r) => sink.on('finish', () => r()));
     await run('mariadb-dump', [`--defaults-extra-file=${opt.file}`, '--single-transaction', '--quick', '--routines', '--triggers', '--hex-blob', '--skip-lock-tables', db], { stdout: gzip ?? sink });
     await done;
   } finally {

@@ -46,6 +46,19 @@ async function assignedJob(co: TestCompany): Promise<number> {
   return (await makeJob(co.owner, customer.id, { crewLeadUserId: co.userIds.crew_lead })).id;
 }
 
+/** Keys that carry wages, margins or costs; a crew lead's answers hold none with a value. */
+const MONEY_KEY = /wage|margin|markup|burden|unit_?cost|cost_?cents|costs?$|contract|price|amount/i;
+function moneyKeys(body: unknown, path = ''): string[] {
+  if (!body || typeof body !== 'object') return [];
+  const out: string[] = [];
+  for (const [k, v] of Object.entries(body as Record<string, unknown>)) {
+    const here = path ? `${path}.${k}` : k;
+    if (MONEY_KEY.test(k) && v !== null && v !== undefined) out.push(here);
+    out.push(...moneyKeys(v, here));
+  }
+  return out;
+}
+
 const MUTATING = new Set<Method>(['POST', 'PUT', 'PATCH', 'DELETE']);
 
 function fill(pattern: string, params: Params): string {
@@ -118,6 +131,10 @@ describe('permissions matrix', () => {
           const allowed = access === 'public' || access === 'signed-in' || can(role, access as Action);
           const res = await call(a.as(role), method, allowed ? await pathFor() : fill(r.pattern, shared));
           expectStatus(role, res.status, allowed);
+          if (role === 'crew_lead' && method === 'GET' && res.status === 200) {
+            const leaked = moneyKeys(res.body);
+            if (leaked.length) mismatches.push(`GET ${r.pattern} shows a crew lead ${leaked.join(', ')}`);
+          }
         }
         const res = await call(signedOut, method, fill(r.pattern, shared));
         expectStatus('signed out', res.status, access === 'public' ? 'public' : false);

@@ -1,0 +1,86 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { Client } from '../../setup/client';
+import { PASSWORD, makeCompany, uniqueEmail } from '../../setup/factory';
+import { closeTestDb, testDb } from '../../setup/db';
+import { startApp } from '../../setup/processes';
+
+afterAll(closeTestDb);
+
+describe('sessions and the web edge', () => {
+  it('gives 20 parallel sign-ups 20 accounts and 20 companies', async () => {
+    const emails = Array.from({ length: 20 }, (_, i) => uniqueEmail(`par${i}`));
+    const results = await Promise.all(emails.map((email, i) => new Client().post('/api/signup', { name: `Parallel ${i}`, email, password: PASSWORD, companyName: `Parallel Fence ${i}` })));
+    expect(results.map((r) => r.status)).toEqual(Array(20).fill(201));
+    const users = await testDb()('user').whereIn('email', emails).select('id');
+    expect(new Set(users.map((u) => u.id)).size).toBe(20);
+    expect(new Set(results.map((r) => r.body.company.id)).size).toBe(20);
+  });
+
+  it('marks the session cookie Secure when the app is served over HTTPS', async () => {
+    const origin = 'https://fence.example';
+    const app = await startApp({ APP_URL: origin });
+    try {
+      const c = new Client(app.url);
+      const email = uniqueEmail('secure');
+      const r = await c.request('POST', '/api/auth/sign-up/email', { json: { name: 'Secure', email, password: PASSWORD }, origin });
+      expect(r.status).toBe(200);
+      const cookie = (r.headers['set-cookie'] ?? []).find((s) => s.includes('session_token'))!;
+      expect(cookie).toMatch(/; Secure/i);
+      expect(cookie).toMatch(/HttpOnly/i);
+      expect(cookie).toMatch(/^__Secure-/);
+    } finally {
+      await app.kill();
+    }
+  });
+
+  it('ends a session at its absolute lifetime, however active it was', async () => {
+    const app = await startApp({ SESSION_MAX_AGE: '3' });
+    try {
+      const co = await makeCompany();
+      const c = new Client(app.url);
+      expect((await c.signIn(co.emails.owner, PASSWORD)).status).toBe(200);
+      expect((await c.get('/api/jobs')).status).toBe(200);
+      await new Promise((r) => setTimeout(r, 1500));
+      expect((await c.get('/api/jobs')).status).toBe(200);
+      await new Promise((r) => setTimeout(r, 2500));
+      expect((await c.get('/api/jobs')).status).toBe(401);
+    } finally {
+      await app.kill();
+    }
+  });
+
+  it('keeps SQL- and script-shaped text as text and renders it escaped', async () => {
+    const co = await makeCompany();
+    const nasty = `<script>alert('x')</script>'; DROP TABLE jobs; -- "quoted" & more`;
+    const made = await co.owner.post('/api/customers', { name: nasty, notes: "Robert'); DELETE FROM customers;--" });
+    expect(made.status).toBe(201);
+    const back = await co.owner.get(`/api/customers/${made.body.id}`);
+    expect(back.body.name).toBe(nasty);
+    expect(back.body.notes).toBe("Robert'); DELETE FROM customers;--");
+    const page = await co.owner.get(`/customers/${made.body.id}`);
+    expect(page.status).toBe(200);
+    expect(page.text).not.toContain("<script>alert('x')</script>");
+    expect(page.text).toContain('&lt;script&gt;');
+    expect(await testDb()('jobs').count({ n: '*' })).toBeTruthy();
+    const search = await co.owner.get(`/api/customers?q=${encodeURIComponent("' OR 1=1 --")}`);
+    expect(search.status).toBe(200);
+    expect(search.body.total).toBe(0);
+  });
+
+  it('refuses unknown query parameters and out-of-range values', async () => {
+    const co = await makeCompany();
+    expect((await co.owner.get('/api/jobs?pageSize=0')).status).toBe(400);
+    expect((await co.owner.get('/api/jobs?page=-1')).status).toBe(400);
+    expect((await co.owner.get('/api/jobs?admin=1')).status).toBe(400);
+    expect((await co.owner.post('/api/customers', { name: 'x'.repeat(201) })).status).toBe(400);
+  });
+
+  it('sends the security headers on pages and API answers alike', async () => {
+    for (const path of ['/sign-in', '/api/health', '/api/jobs']) {
+      const r = await new Client().get(path);
+      expect(r.headers['content-security-policy'], path).toContain("frame-ancestors 'none'");
+      expect(r.headers['x-content-type-options'], path).toBe('nosniff');
+      expect(r.headers['referrer-policy'], path).toBe('strict-origin-when-cross-origin');
+    }
+  });
+});
