@@ -14,3 +14,9 @@ export function toStripeAmount(cents: number, currency: CurrencyCode): number {
   if (cents % div !== 0) throw new Error(`${cents} cents is not a whole amount in ${currency}`);
   return cents / div;
 }
+
+/** The other way: an amount Stripe reports, in Tallypost's hundredths. */
+export function fromStripeAmount(amount: number, currency: CurrencyCode): number {
+  const exp = MINOR_UNITS[currency];
+  return exp >= 2 ? amount / 10 ** (exp - 2) : amount * 10 ** (2 - exp);
+}

@@ -1,6 +1,5 @@
 import { createRequire } from 'node:module';
 import { readFileSync } from 'node:fs';
-import * as fontkit from 'fontkit';
 
 /**
  * The shipped Inter comes as variable WOFF2 only, and fontkit's TrueType subsetter (which
@@ -9,6 +8,10 @@ import * as fontkit from 'fontkit';
  * TrueType font once per process: every glyph's outline re-encoded, composite glyphs
  * flattened, variation and hinting tables dropped.
  */
+const require = createRequire(import.meta.url);
+// fontkit ships no types; only create() and the WOFF2 internals below are used.
+const fontkit = require('fontkit') as { create(buf: Buffer): unknown };
+
 const DROP = new Set(['glyf', 'loca', 'hmtx', 'DSIG', 'fvar', 'gvar', 'avar', 'HVAR', 'MVAR', 'VVAR', 'STAT', 'cvar', 'fpgm', 'prep', 'cvt ', 'hdmx', 'LTSH', 'VDMX', 'gasp']);
 
 interface Woff2Like {
@@ -135,7 +138,6 @@ export function woff2ToTtf(woff2: Buffer): Buffer {
   return out;
 }
 
-const require = createRequire(import.meta.url);
 let cache: Buffer | undefined;
 
 /** Inter (its default, regular instance) as static TrueType, made from the shipped file once. */
