@@ -185,7 +185,10 @@ export async function updateInvoice(companyId: string, id: number, v: Partial<In
 }
 
 export async function replaceLines(companyId: string, invoiceId: number, lines: Line[], trx: Knex.Transaction): Promise<void> {
-  await trx('invoice_lines').where({ organization_id: companyId, invoice_id: invoiceId }).delete();
+  // Delete by primary key: a DELETE by invoice_id on a new invoice would gap-lock the index
+  // and deadlock with other drafts being written at the same moment.
+  const old = await trx('invoice_lines').where({ organization_id: companyId, invoice_id: invoiceId }).pluck('id');
+  if (old.length) await trx('invoice_lines').whereIn('id', old).delete();
   if (!lines.length) return;
   await trx('invoice_lines').insert(
     lines.map((l, i) => ({

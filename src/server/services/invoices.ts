@@ -17,6 +17,18 @@ import { invoiceUrl, newNonce } from './invoice-links.ts';
 
 type Q = Knex | Knex.Transaction;
 
+/** A transaction retried (up to three times) when MariaDB picks it as a deadlock victim. */
+export async function tx<T>(fn: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await db().transaction(fn);
+    } catch (err) {
+      const code = (err as { code?: string }).code;
+      if (attempt >= 3 || (code !== 'ER_LOCK_DEADLOCK' && code !== 'ER_LOCK_WAIT_TIMEOUT')) throw err;
+    }
+  }
+}
+
 export interface Warning {
   code: 'OVER_CONTRACT' | 'DEPOSIT_OVER_CAP' | 'NO_CONTRACT' | 'NOTHING_TO_BILL' | 'NO_EMAIL';
   message: string;
@@ -102,8 +114,8 @@ async function plan(q: Q, s: BillingSettings, job: JobFacts, r: Recipe, exceptIn
   }
   for (const l of r.extraLines) lines.push({ kind: 'extra', category: l.category, description: l.description, quantity: l.quantity, unitPriceCents: l.unitPriceCents, taxable: l.taxable });
 
-  const billsContract = r.kind === 'progress' || r.kind === 'final';
-  const retainagePct = billsContract ? (r.retainagePct ?? (job.commercial ? s.defaultRetainagePct : 0)) : 0;
+  // Retainage is held on progress bills only; the final bill holds none and releases what was held.
+  const retainagePct = r.kind === 'progress' ? (r.retainagePct ?? (job.commercial ? s.defaultRetainagePct : 0)) : 0;
   const t = computeInvoice({ lines, taxMode: s.taxMode, taxRatePct: s.taxRatePct, retainagePct, currency: s.currency });
   const overContractCents = overContract({ contractCents: contract.contractCents, billedBeforeCents: billed.billedBeforeCents, thisBillCents: t.contractBilledCents });
   if (overContractCents > 0) {
@@ -143,7 +155,7 @@ export async function createDraftTx(trx: Knex.Transaction, actor: Actor, input: 
 }
 
 export async function createDraft(actor: Actor, input: InvoiceDraftInput) {
-  const id = await db().transaction((trx) => createDraftTx(trx, actor, input));
+  const id = await tx((trx) => createDraftTx(trx, actor, input));
   return getInvoice(actor, id);
 }
 
@@ -155,7 +167,7 @@ async function lockedDraft(trx: Knex.Transaction, actor: Actor, id: number): Pro
 }
 
 export async function updateDraft(actor: Actor, id: number, input: InvoiceDraftPatch) {
-  await db().transaction(async (trx) => {
+  await tx(async (trx) => {
     const inv = await lockedDraft(trx, actor, id);
     const job = (await jobFacts(actor.companyId, inv.jobId, trx))!;
     const s = await billingSettings(actor.companyId, trx);
@@ -168,7 +180,7 @@ export async function updateDraft(actor: Actor, id: number, input: InvoiceDraftP
 }
 
 export async function discardDraft(actor: Actor, id: number): Promise<void> {
-  await db().transaction(async (trx) => {
+  await tx(async (trx) => {
     await lockedDraft(trx, actor, id);
     await trx('invoice_lines').where({ organization_id: actor.companyId, invoice_id: id }).delete();
     await trx('invoices').where({ organization_id: actor.companyId, id }).delete();
@@ -215,7 +227,7 @@ export async function issueTx(trx: Knex.Transaction, actor: Actor, id: number, t
 }
 
 export async function issueInvoice(actor: Actor, id: number) {
-  await db().transaction((trx) => issueTx(trx, actor, id));
+  await tx((trx) => issueTx(trx, actor, id));
   return getInvoice(actor, id);
 }
 
@@ -243,12 +255,12 @@ export async function sendTx(trx: Knex.Transaction, actor: Actor, id: number, op
 }
 
 export async function sendInvoice(actor: Actor, id: number) {
-  await db().transaction((trx) => sendTx(trx, actor, id));
+  await tx((trx) => sendTx(trx, actor, id));
   return getInvoice(actor, id);
 }
 
 export async function voidInvoice(actor: Actor, id: number, input: { reason: string; replace: boolean }) {
-  const replacement = await db().transaction(async (trx) => {
+  const replacement = await tx(async (trx) => {
     const inv = await repo.findInvoice(actor.companyId, id, trx, true);
     if (!inv) throw notFound('That invoice');
     if (inv.status === 'draft') throw new AppError('RULE_BROKEN', 'A draft has no number to void; discard it instead.');

@@ -1,5 +1,4 @@
 import type { Knex } from 'knex';
-import { db } from '../db.ts';
 import type { Actor } from '../http.ts';
 import { AppError, notFound } from '../../lib/errors.ts';
 import { applyPayment, PAYMENT_METHOD_LABELS, refundSplit, type PaymentMethod } from '../../lib/billing/payments.ts';
@@ -13,7 +12,7 @@ import { audit } from '../repos/audit.ts';
 import { enqueueMail } from '../mail/outbox.ts';
 import { receiptMail } from './billing-mail.ts';
 import { invoiceUrl } from './invoice-links.ts';
-import { getInvoice } from './invoices.ts';
+import { getInvoice, tx } from './invoices.ts';
 import { stripe } from '../payments/stripe.ts';
 
 /** The one way a payment lands, manual or by card: under the invoice's row lock. */
@@ -73,13 +72,13 @@ async function queueReceipt(trx: Knex.Transaction, companyId: string, inv: repo.
 export async function recordPayment(actor: Actor, invoiceId: number, input: PaymentInput) {
   const s = await billingSettings(actor.companyId);
   if (input.receivedOn > todayIn(s.timezone)) throw new AppError('BAD_INPUT', 'Some fields need attention.', { receivedOn: 'A payment cannot be received in the future.' });
-  const r = await db().transaction((trx) => landPaymentTx(trx, actor, invoiceId, { ...input, reference: input.reference }));
+  const r = await tx((trx) => landPaymentTx(trx, actor, invoiceId, { ...input, reference: input.reference }));
   return { paymentId: r.paymentId, invoice: await getInvoice(actor, invoiceId) };
 }
 
 /** Refund recorded in Tallypost; a card payment's refund goes through Stripe in the same step. */
 export async function refundPayment(actor: Actor, paymentId: number, input: { amountCents: number; reason: string | null }) {
-  const invoiceId = await db().transaction(async (trx) => {
+  const invoiceId = await tx(async (trx) => {
     const pre = await repo.findPayment(actor.companyId, paymentId, trx);
     if (!pre) throw notFound('That payment');
     const inv = (await repo.findInvoice(actor.companyId, pre.invoiceId, trx, true))!;

@@ -1,0 +1,118 @@
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import { INVOICE_KIND_LABELS, INVOICE_STATUS_LABELS, type InvoiceKind, type InvoiceStatus } from '../../../lib/billing/invoice';
+import { formatDate, formatMoney, type CurrencyCode } from '../../../lib/format';
+import { api } from '../ui/api';
+import { InvoiceStatusPill } from './InvoiceStatusPill';
+
+export interface InvoiceRowView {
+  id: number;
+  numberText: string | null;
+  kind: InvoiceKind;
+  displayStatus: InvoiceStatus | 'overdue';
+  jobId: number;
+  jobCode: string;
+  jobTitle: string;
+  customerName: string;
+  issuedOn: string | null;
+  dueOn: string | null;
+  totalCents: number;
+  balanceCents: number;
+}
+
+const FILTERS = ['draft', 'issued', 'partly_paid', 'overdue', 'paid', 'void'] as const;
+const col = createColumnHelper<InvoiceRowView>();
+
+/** Every invoice of the company: filter by state, search, sort by any column. */
+export default function InvoicesTable({ initial, currency }: { initial: InvoiceRowView[]; currency: CurrencyCode }) {
+  const [rows, setRows] = useState(initial);
+  const [status, setStatus] = useState<string[]>([]);
+  const [q, setQ] = useState('');
+  const [sorting, setSorting] = useState<SortingState>([]);
+  const [loading, setLoading] = useState(false);
+  const first = useRef(true);
+
+  useEffect(() => {
+    if (first.current) { first.current = false; return; }
+    const ctrl = new AbortController();
+    const t = setTimeout(() => {
+      const p = new URLSearchParams();
+      if (status.length) p.set('status', status.join(','));
+      if (q.trim()) p.set('q', q.trim());
+      setLoading(true);
+      api<{ items: InvoiceRowView[] }>(`/api/invoices?${p}`, { signal: ctrl.signal }).then((r) => { if (r.ok) setRows(r.data.items); setLoading(false); }).catch(() => {});
+    }, 200);
+    return () => { clearTimeout(t); ctrl.abort(); };
+  }, [status, q]);
+
+  const m = (c: number) => formatMoney(c, currency);
+  const columns = useMemo(() => [
+    col.accessor((r) => r.numberText ?? '', { id: 'number', header: 'Invoice', cell: (c) => <a className="font-semibold" href={`/invoices/${c.row.original.id}`}>{c.row.original.numberText ?? 'Draft'}</a> }),
+    col.accessor('jobCode', { header: 'Job', cell: (c) => <a href={`/jobs/${c.row.original.jobId}`} className="whitespace-nowrap">{c.getValue()}</a> }),
+    col.accessor('customerName', { header: 'Customer' }),
+    col.accessor('kind', { header: 'Kind', cell: (c) => INVOICE_KIND_LABELS[c.getValue()] }),
+    col.accessor('displayStatus', { header: 'State', cell: (c) => <InvoiceStatusPill status={c.getValue()} /> }),
+    col.accessor('issuedOn', { header: 'Issued', cell: (c) => <span className="whitespace-nowrap">{formatDate(c.getValue())}</span> }),
+    col.accessor('dueOn', { header: 'Due', cell: (c) => <span className="whitespace-nowrap">{formatDate(c.getValue())}</span> }),
+    col.accessor('totalCents', { header: 'Total', cell: (c) => <span className="block text-right">{m(c.getValue())}</span> }),
+    col.accessor('balanceCents', { header: 'Balance', cell: (c) => <span className="block text-right font-medium">{m(c.getValue())}</span> }),
+  ], [currency]);
+  const table = useReactTable({ data: rows, columns, state: { sorting }, onSortingChange: setSorting, getCoreRowModel: getCoreRowModel(), getSortedRowModel: getSortedRowModel() });
+  const toggle = (s: string) => setStatus((cur) => (cur.includes(s) ? cur.filter((x) => x !== s) : [...cur, s]));
+  const total = rows.reduce((a, r) => a + r.balanceCents, 0);
+
+  return (
+    <div className="space-y-3" data-testid="invoices-table">
+      <div className="flex flex-wrap items-end gap-3">
+        <label className="min-w-[14rem] flex-1">
+          <span className="label">Search</span>
+          <input className="input" type="search" placeholder="Invoice number, job, customer" value={q} onChange={(e) => setQ(e.target.value)} />
+        </label>
+      </div>
+      <fieldset className="flex flex-wrap gap-2">
+        <legend className="label">State</legend>
+        {FILTERS.map((s) => (
+          <label key={s} className={`cursor-pointer rounded-full border px-3 py-1 text-xs ${status.includes(s) ? 'border-timber-600 bg-timber-100 font-semibold text-timber-800' : 'border-galv-300 bg-white text-galv-700'}`}>
+            <input type="checkbox" className="sr-only" checked={status.includes(s)} onChange={() => toggle(s)} />
+            {status.includes(s) ? '✓ ' : ''}{INVOICE_STATUS_LABELS[s]}
+          </label>
+        ))}
+      </fieldset>
+      <ul className={`space-y-2 sm:hidden ${loading ? 'opacity-60' : ''}`} aria-label="Invoices">
+        {table.getRowModel().rows.map(({ original: r }) => (
+          <li key={r.id} className="card p-3">
+            <div className="flex items-center justify-between gap-2"><a href={`/invoices/${r.id}`} className="font-semibold">{r.numberText ?? 'Draft'}</a><InvoiceStatusPill status={r.displayStatus} /></div>
+            <p className="text-sm">{r.customerName} · {r.jobCode}</p>
+            <p className="text-xs text-galv-600">Due {formatDate(r.dueOn)} · balance {m(r.balanceCents)}</p>
+          </li>
+        ))}
+      </ul>
+      <div className="hidden overflow-x-auto rounded-lg border border-galv-200 bg-white sm:block">
+        <table className="table-dense" aria-busy={loading}>
+          <thead>
+            {table.getHeaderGroups().map((hg) => (
+              <tr key={hg.id}>
+                {hg.headers.map((h) => {
+                  const sorted = h.column.getIsSorted();
+                  return (
+                    <th key={h.id} aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}>
+                      <button type="button" className="flex items-center gap-1" onClick={h.column.getToggleSortingHandler()}>
+                        {flexRender(h.column.columnDef.header, h.getContext())}
+                        <span aria-hidden="true" className="text-galv-400">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
+                      </button>
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody className={loading ? 'opacity-60' : ''}>
+            {table.getRowModel().rows.map((row) => <tr key={row.id}>{row.getVisibleCells().map((cell) => <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>)}</tr>)}
+            {rows.length === 0 && <tr><td colSpan={columns.length} className="py-6 text-center text-galv-500">No invoices match.</td></tr>}
+          </tbody>
+        </table>
+      </div>
+      <p className="text-sm" data-testid="invoices-total">{rows.length} invoice{rows.length === 1 ? '' : 's'} · balance {m(total)}</p>
+    </div>
+  );
+}
