@@ -55,7 +55,7 @@ describe('getting paid, as the owner and as the customer', () => {
     const inbox = await customer.newPage();
     await inbox.goto(stack().mailApi);
     await inbox.getByText(mail.subject).first().click();
-    const link = inbox.frameLocator('iframe').first().getByRole('link', { name: 'View and pay the invoice' });
+    const link = inbox.locator('iframe').first().contentFrame().getByRole('link', { name: 'View and pay the invoice' });
     await link.waitFor({ timeout: 15_000 });
     await shot(inbox, 'invoices-mail-inbox');
     const href = (await link.getAttribute('href'))!;

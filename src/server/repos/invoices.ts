@@ -1,22 +1,15 @@
 import type { Knex } from 'knex';
 import { db, toInt } from '../db.ts';
-import type { InvoiceKind, InvoiceStatus, Line, LineCategory, LineKind, TaxMode } from '../../lib/billing/invoice.ts';
+import type { InvoiceKind, InvoiceStatus, InvoiceTotals, Line, LineCategory, LineKind, TaxMode } from '../../lib/billing/invoice.ts';
 import type { Terms } from '../../lib/billing/terms.ts';
 import type { PaymentMethod } from '../../lib/billing/payments.ts';
 
 type Q = Knex | Knex.Transaction;
 
-export interface InvoiceRecord {
-  id: number;
-  companyId: string;
+export interface InvoiceRowInput {
   jobId: number;
   customerId: number;
   kind: InvoiceKind;
-  status: InvoiceStatus;
-  number: number | null;
-  numberText: string | null;
-  issuedOn: string | null;
-  dueOn: string | null;
   terms: Terms;
   termsDays: number;
   notes: string | null;
@@ -25,18 +18,25 @@ export interface InvoiceRecord {
   basisPct: number | null;
   requestedCents: number | null;
   retainagePct: number;
-  subtotalCents: number;
-  taxableCents: number;
-  taxCents: number;
-  contractBilledCents: number;
-  retainageHeldCents: number;
-  retainageReleasedCents: number;
-  totalCents: number;
-  paidCents: number;
-  balanceCents: number;
   overContractOk: boolean;
   overDepositCapOk: boolean;
   overrideReason: string | null;
+  replacesInvoiceId?: number | null;
+}
+
+/** An invoice's computed amounts, as computeInvoice returns them. */
+export type Totals = Omit<InvoiceTotals, 'lines'>;
+
+export interface InvoiceRecord extends Omit<InvoiceRowInput, 'replacesInvoiceId'>, Totals {
+  id: number;
+  companyId: string;
+  status: InvoiceStatus;
+  number: number | null;
+  numberText: string | null;
+  issuedOn: string | null;
+  dueOn: string | null;
+  paidCents: number;
+  balanceCents: number;
   publicNonce: string;
   voidReason: string | null;
   voidedAt: string | null;
@@ -127,34 +127,6 @@ export async function listInvoices(companyId: string, f: { jobId?: number; statu
     b.andWhere((w) => w.whereILike('i.number_text', like).orWhereILike('j.code', like).orWhereILike('j.title', like).orWhereILike('c.name', like));
   }
   return (await b).map((r) => ({ ...fromRow(r), jobCode: r.job_code, jobTitle: r.job_title, customerName: r.customer_name }));
-}
-
-export interface InvoiceRowInput {
-  jobId: number;
-  customerId: number;
-  kind: InvoiceKind;
-  terms: Terms;
-  termsDays: number;
-  notes: string | null;
-  taxMode: TaxMode;
-  taxRatePct: number;
-  basisPct: number | null;
-  requestedCents: number | null;
-  retainagePct: number;
-  overContractOk: boolean;
-  overDepositCapOk: boolean;
-  overrideReason: string | null;
-  replacesInvoiceId?: number | null;
-}
-
-export interface Totals {
-  subtotalCents: number;
-  taxableCents: number;
-  taxCents: number;
-  contractBilledCents: number;
-  retainageHeldCents: number;
-  retainageReleasedCents: number;
-  totalCents: number;
 }
 
 function inputRow(v: Partial<InvoiceRowInput>): Record<string, unknown> {

@@ -1,9 +1,10 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { INVOICE_KIND_LABELS, INVOICE_STATUS_LABELS, type InvoiceKind, type InvoiceStatus } from '../../../lib/billing/invoice';
 import { formatDate, formatMoney, type CurrencyCode } from '../../../lib/format';
 import { api } from '../ui/api';
 import { InvoiceStatusPill } from './InvoiceStatusPill';
+import { SortableTable } from './SortableTable';
 
 export interface InvoiceRowView {
   id: number;
@@ -88,29 +89,7 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
         ))}
       </ul>
       <div className="hidden overflow-x-auto rounded-lg border border-galv-200 bg-white sm:block">
-        <table className="table-dense" aria-busy={loading}>
-          <thead>
-            {table.getHeaderGroups().map((hg) => (
-              <tr key={hg.id}>
-                {hg.headers.map((h) => {
-                  const sorted = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}>
-                      <button type="button" className="flex items-center gap-1" onClick={h.column.getToggleSortingHandler()}>
-                        {flexRender(h.column.columnDef.header, h.getContext())}
-                        <span aria-hidden="true" className="text-galv-400">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
-                      </button>
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody className={loading ? 'opacity-60' : ''}>
-            {table.getRowModel().rows.map((row) => <tr key={row.id}>{row.getVisibleCells().map((cell) => <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>)}</tr>)}
-            {rows.length === 0 && <tr><td colSpan={columns.length} className="py-6 text-center text-galv-500">No invoices match.</td></tr>}
-          </tbody>
-        </table>
+        <SortableTable table={table} loading={loading} empty="No invoices match." />
       </div>
       <p className="text-sm" data-testid="invoices-total">{rows.length} invoice{rows.length === 1 ? '' : 's'} · balance {m(total)}</p>
     </div>

@@ -1,8 +1,9 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { AGING_BUCKETS, AGING_LABELS, type AgingBucket, type BucketTotals } from '../../../lib/aging';
 import { formatDate, formatMoney, type CurrencyCode } from '../../../lib/format';
 import { api } from '../ui/api';
+import { SortableTable } from '../invoices/SortableTable';
 
 export interface ReceivableRow {
   id: number; numberText: string; jobId: number; jobCode: string; customerId: number; customerName: string; issuedOn: string; dueOn: string;
@@ -73,25 +74,7 @@ export default function ReceivablesTable({ initial }: { initial: ReceivablesData
         <a className="btn-secondary ml-auto" href={`/api/receivables?${new URLSearchParams([...params, ['format', 'csv']])}`} download>Export CSV</a>
       </div>
       <div className="overflow-x-auto rounded-lg border border-galv-200 bg-white">
-        <table className="table-dense" aria-busy={loading}>
-          <thead>
-            {table.getHeaderGroups().map((hg) => (
-              <tr key={hg.id}>{hg.headers.map((h) => {
-                const sorted = h.column.getIsSorted();
-                return (
-                  <th key={h.id} aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}>
-                    <button type="button" className="flex items-center gap-1" onClick={h.column.getToggleSortingHandler()}>{flexRender(h.column.columnDef.header, h.getContext())}<span aria-hidden="true" className="text-galv-400">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span></button>
-                  </th>
-                );
-              })}</tr>
-            ))}
-          </thead>
-          <tbody className={loading ? 'opacity-60' : ''}>
-            {table.getRowModel().rows.map((row) => <tr key={row.id}>{row.getVisibleCells().map((cell) => <td key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</td>)}</tr>)}
-            {data.items.length === 0 && <tr><td colSpan={columns.length} className="py-6 text-center text-galv-500">Nothing open here.</td></tr>}
-          </tbody>
-          <tfoot><tr><td colSpan={columns.length - 1} className="px-3 py-2 text-right font-semibold">{data.items.length} open · total</td><td className="px-3 py-2 text-right font-semibold">{m(data.totals.total)}</td></tr></tfoot>
-        </table>
+        <SortableTable table={table} loading={loading} empty="Nothing open here." footer={<tfoot><tr><td colSpan={columns.length - 1} className="px-3 py-2 text-right font-semibold">{data.items.length} open · total</td><td className="px-3 py-2 text-right font-semibold">{m(data.totals.total)}</td></tr></tfoot>} />
       </div>
       <section aria-labelledby="by-customer">
         <h2 id="by-customer" className="mb-2">By customer</h2>
