@@ -260,8 +260,11 @@ export async function findPayment(companyId: string, id: number, q: Q = db(), lo
   return r ? paymentFromRow(r) : undefined;
 }
 
-export async function findPaymentByIntent(intent: string, q: Q = db()): Promise<PaymentRecord | undefined> {
-  const r = await q('payments').where({ stripe_payment_intent: intent }).first();
+/** With lock, a locking read: it sees rows committed after the caller's snapshot was taken. */
+export async function findPaymentByIntent(intent: string, q: Q = db(), lock = false): Promise<PaymentRecord | undefined> {
+  const b = q('payments').where({ stripe_payment_intent: intent }).first();
+  if (lock) b.forUpdate();
+  const r = await b;
   return r ? paymentFromRow(r) : undefined;
 }
 

@@ -26,8 +26,9 @@ export async function landPaymentTx(
   const inv = await repo.findInvoice(actor.companyId, invoiceId, trx, true);
   if (!inv) throw notFound('That invoice');
   if (p.stripePaymentIntent) {
-    // Checked under the invoice lock: a second event for the same payment finds the first's row.
-    const seen = await repo.findPaymentByIntent(p.stripePaymentIntent, trx);
+    // Checked under the invoice lock, with a locking read (not the transaction's older
+    // snapshot): a second event for the same payment finds the first's row.
+    const seen = await repo.findPaymentByIntent(p.stripePaymentIntent, trx, true);
     if (seen) return { paymentId: seen.id, created: false };
   }
   const open = inv.status === 'issued' || inv.status === 'partly_paid';

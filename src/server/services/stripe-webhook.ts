@@ -1,6 +1,5 @@
 import type Stripe from 'stripe';
 import { z } from 'zod';
-import { db } from '../db.ts';
 import type { Actor } from '../http.ts';
 import { AppError } from '../../lib/errors.ts';
 import { fromStripeAmount } from '../../lib/billing/stripe-amount.ts';
@@ -10,6 +9,7 @@ import { billingSettings, todayIn } from '../repos/billing-settings.ts';
 import { audit } from '../repos/audit.ts';
 import { verifyWebhook } from '../payments/stripe.ts';
 import { insertRefundTx, landPaymentTx } from './payments.ts';
+import { tx } from './invoices.ts';
 
 /** What Tallypost put in the metadata when it made the checkout session; refused unless it reads back exactly. */
 const metadata = z.object({ invoice_id: z.string().regex(/^\d{1,15}$/), organization_id: z.string().min(1).max(36) });
@@ -27,15 +27,18 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
   const v = verifyWebhook(raw, signature);
   if (!v.ok) throw new AppError('BAD_SIGNATURE', `Webhook refused: ${v.reason}`);
   const event = v.event;
-  const outcome = await db().transaction(async (trx) => {
-    const seen = await trx('stripe_events').where('id', event.id).forUpdate().first('outcome');
-    if (seen) return `already handled (${seen.outcome})`;
+  // The event row is inserted first: a second delivery of the same id waits on it and then
+  // finds it taken; nothing else is locked before the invoice row.
+  const outcome = await tx(async (trx) => {
+    try {
+      await trx('stripe_events').insert({ id: event.id, type: event.type, outcome: 'processing' });
+    } catch (err) {
+      if ((err as { code?: string }).code === 'ER_DUP_ENTRY') return 'already handled';
+      throw err;
+    }
     const result = await apply(trx, event);
-    await trx('stripe_events').insert({ id: event.id, organization_id: result.companyId, type: event.type, invoice_id: result.invoiceId, outcome: result.outcome.slice(0, 200) });
+    await trx('stripe_events').where('id', event.id).update({ organization_id: result.companyId, invoice_id: result.invoiceId, outcome: result.outcome.slice(0, 200) });
     return result.outcome;
-  }).catch((err) => {
-    if ((err as { code?: string }).code === 'ER_DUP_ENTRY') return 'already handled';
-    throw err;
   });
   return { status: 200, body: { received: true, outcome } };
 }
@@ -84,9 +87,10 @@ async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event):
       const refunds = ((obj.refunds as { data?: { id: string; amount: number }[] } | undefined)?.data ?? []);
       let n = 0;
       for (const rf of refunds) {
-        if (await trx('refunds').where('stripe_refund', rf.id).first('id')) continue;
+        // Locks first, then a locking read: a refund made in Tallypost a moment ago is seen.
         const inv = (await repo.findInvoice(companyId, pay.invoiceId, trx, true))!;
         const fresh = (await repo.findPayment(companyId, pay.id, trx, true))!;
+        if (await trx('refunds').where('stripe_refund', rf.id).forUpdate().first('id')) continue;
         const cents = fromStripeAmount(rf.amount, s.currency);
         const part = refundSplit(fresh, cents);
         if (!part) continue;
