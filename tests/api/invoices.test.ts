@@ -202,3 +202,34 @@ describe('issued invoices', () => {
     expect((await anyone.get(`/api/public/invoices/${Number(id) + 1}.${nonce}.${sig}`)).status).toBe(404);
   });
 });
+
+describe('change orders and billing settings', () => {
+  it('are drafted by owner and bookkeeper only, decided once, and stay in their company', async () => {
+    const { job } = await billableJob(co);
+    const body = { jobId: job.id, description: 'Swap to black hardware', priceCents: 12_000, costs: { material: 6_000 } };
+    expect((await co.estimator.post('/api/change-orders', body)).status).toBe(403);
+    expect((await other.owner.post('/api/change-orders', body)).status).toBe(400);
+    const c = (await co.owner.post('/api/change-orders', body)).body;
+    const second = (await co.owner.post('/api/change-orders', { ...body, description: 'Add a kick board' })).body;
+    expect(second.label).toBe('CO-2');
+    expect((await other.owner.post(`/api/change-orders/${c.id}/decision`, { decision: 'approved', decidedOn: '2026-03-02', approvedByName: 'X' })).status).toBe(404);
+    expect((await co.owner.post(`/api/change-orders/${c.id}/decision`, { decision: 'approved', decidedOn: '2026-03-02' })).status).toBe(400);
+    expect((await co.owner.post(`/api/change-orders/${c.id}/decision`, { decision: 'declined', decidedOn: '2026-03-02' })).status).toBe(200);
+    expect((await co.owner.post(`/api/change-orders/${c.id}/decision`, { decision: 'approved', decidedOn: '2026-03-02', approvedByName: 'X' })).status).toBe(409);
+    const r = await co.owner.post('/api/invoices', { jobId: job.id, kind: 'extra', terms: 'net_15', changeOrderIds: [c.id] });
+    expect(r.status).toBe(422);
+    expect(await testDb()('job_estimates').where({ source: 'change_order', source_id: c.id }).first()).toBeUndefined();
+    expect((await co.owner.get(`/api/change-orders?jobId=${job.id}`)).body.map((x: { status: string }) => x.status)).toEqual(['declined', 'proposed']);
+  });
+
+  it('refuses a bad reminder schedule and lets only the owner change billing settings', async () => {
+    const bad = await settings(co, { reminderOffsets: '-3, soon, 14' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.reminderOffsets).toBeTruthy();
+    expect((await settings(co, { invoicePrefix: 'inv-1' })).status).toBe(400);
+    expect((await co.bookkeeper.request('PUT', '/api/reminders/settings', { json: {} })).status).toBe(403);
+    const ok = await settings(co, { reminderOffsets: '14, -3, 0, 7, 7' });
+    expect(ok.status).toBe(200);
+    expect(ok.body.reminderOffsets).toBe('-3,0,7,14');
+  });
+});

@@ -111,6 +111,24 @@ describe('paying online', () => {
     expect(after.status).toBe('paid');
   });
 
+  it('records a payment once when its two events arrive at the same moment, several times over', async () => {
+    const { job } = await billableJob(co, 400_000);
+    const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: 40_000 })).id);
+    const meta = { invoice_id: String(inv.id), organization_id: co.id };
+    const intent = `pi_test_race${inv.id}`;
+    const created = Math.floor(Date.now() / 1000);
+    const events = Array.from({ length: 3 }, (_, k) => [
+      JSON.stringify({ id: `evt_test_race_pi_${inv.id}_${k}`, object: 'event', type: 'payment_intent.succeeded', created, data: { object: { id: intent, object: 'payment_intent', amount: inv.totalCents, amount_received: inv.totalCents, currency: 'usd', status: 'succeeded', metadata: meta } } }),
+      JSON.stringify({ id: `evt_test_race_cs_${inv.id}_${k}`, object: 'event', type: 'checkout.session.completed', created, data: { object: { id: `cs_test_race${inv.id}`, object: 'checkout.session', amount_total: inv.totalCents, currency: 'usd', payment_status: 'paid', payment_intent: intent, metadata: meta } } }),
+    ]).flat();
+    const results = await Promise.all(events.map((e) => postWebhook(new Client(), e)));
+    expect(results.map((r) => r.status)).toEqual(events.map(() => 200));
+    const after = await getInvoice(co.owner, inv.id);
+    expect(after.payments).toHaveLength(1);
+    expect(after.paidCents).toBe(inv.totalCents);
+    expect(after.payments[0].creditCents).toBe(0);
+  });
+
   it('notes a declined card and leaves the invoice unpaid', async () => {
     const { inv, sessionUrl } = await paidByCard();
     const r = await hostedPage(sessionUrl, 'decline');

@@ -97,6 +97,37 @@ describe('getting paid, as the owner and as the customer', () => {
     await ctx.close();
   });
 
+  it('the owner records a change order and the customer\'s approval on the job page', async () => {
+    const job = await testDb()('jobs').where({ organization_id: DEMO_ORG, status: 'building' }).orderBy('id', 'desc').first('id');
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await signIn(ctx, base(), 'owner@example.com', stack().demoPassword);
+    await page.goto(`${base()}/jobs/${job.id}`);
+    await hydrated(page);
+    const before = await page.getByTestId('contract-to-date').textContent();
+    const panel = page.getByTestId('change-orders');
+    await panel.getByRole('button', { name: 'New change order' }).click();
+    await panel.getByRole('button', { name: 'Save the change order' }).click();
+    expect(await panel.locator('#description-error').textContent()).toContain('Describe the change');
+    await panel.getByLabel('What changes').fill('Add a 4 ft walk gate by the shed');
+    await panel.getByLabel('Price to the customer ($)').fill('650');
+    await panel.getByLabel('Est. materials ($)').fill('240');
+    await panel.getByLabel('Est. labour ($)').fill('180');
+    await panel.getByRole('button', { name: 'Save the change order' }).click();
+    await page.waitForLoadState('load');
+    await page.getByText('Add a 4 ft walk gate by the shed').waitFor();
+    await hydrated(page);
+    const item = page.getByTestId('change-orders').locator('li', { hasText: 'Add a 4 ft walk gate by the shed' });
+    await item.getByRole('button', { name: "Record the customer's answer" }).click();
+    await item.getByLabel('Approved by').fill('Homeowner, on site');
+    await item.getByRole('button', { name: 'Record approval' }).click();
+    await page.waitForLoadState('load');
+    await expect.poll(() => page.getByTestId('contract-to-date').textContent()).not.toBe(before);
+    const toCents = (t: string | null) => Math.round(Number((t ?? '').replace(/[$,]/g, '')) * 100);
+    expect(toCents(await page.getByTestId('contract-to-date').textContent()) - toCents(before)).toBe(65_000);
+    await shot(page, 'invoices-change-order-approved');
+    await ctx.close();
+  });
+
   it('a customer on a phone reads the invoice and can cancel on the pay page', async () => {
     const inv = await testDb()('invoices').where({ organization_id: DEMO_ORG }).whereIn('status', ['issued', 'partly_paid']).orderBy('id').first('id');
     const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
