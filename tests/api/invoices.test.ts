@@ -194,12 +194,13 @@ describe('issued invoices', () => {
     const { Client } = await import('../setup/client');
     const anyone = new Client();
     expect((await anyone.get(`/api/public/invoices/${token}/pdf`)).status).toBe(200);
-    expect((await anyone.get(`/api/public/invoices/${token}`)).body.numberText).toBe(inv.numberText);
+    expect((await anyone.get(`/pay/${token}`, { accept: 'text/html' })).text).toContain(inv.numberText);
     const [id, nonce, sig] = token.split('.');
     const forged = `${id}.${nonce}.${sig.slice(0, -2)}${sig.endsWith('AA') ? 'BB' : 'AA'}`;
-    expect((await anyone.get(`/api/public/invoices/${forged}`)).status).toBe(404);
+    expect((await anyone.get(`/api/public/invoices/${forged}/pdf`)).status).toBe(404);
     expect((await anyone.get(`/pay/${forged}`, { accept: 'text/html' })).status).toBe(404);
-    expect((await anyone.get(`/api/public/invoices/${Number(id) + 1}.${nonce}.${sig}`)).status).toBe(404);
+    expect((await anyone.get(`/pay/${Number(id) + 1}.${nonce}.${sig}`, { accept: 'text/html' })).status).toBe(404);
+    expect((await anyone.post(`/api/public/invoices/${forged}/checkout`)).status).toBe(404);
   });
 });
 

@@ -71,3 +71,37 @@ export async function waitFor<T>(fn: () => Promise<T>, okWhen: (v: T) => boolean
     await new Promise((r) => setTimeout(r, 250));
   }
 }
+
+/**
+ * Ids for the billing routes, in the shape the permission-matrix test's FIXTURES take
+ * ({ pattern: { params(co) } }): each call makes fresh records in the company.
+ */
+export const BILLING_FIXTURES: Record<string, { params: (co: TestCompany) => Promise<Record<string, string>> }> = (() => {
+  const draftId = async (co: TestCompany) => String((await draft(co.owner, { jobId: (await billableJob(co)).job.id, kind: 'deposit', basisPct: 10 })).id);
+  const issued = async (co: TestCompany) => issue(co.owner, Number(await draftId(co)));
+  const token = async (co: TestCompany) => ({ token: ((await issued(co)).publicUrl as string).split('/pay/')[1] });
+  const byId = { params: async (co: TestCompany) => ({ id: await draftId(co) }) };
+  return {
+    '/api/invoices/[id]': byId,
+    '/api/invoices/[id]/issue': byId,
+    '/api/invoices/[id]/send': byId,
+    '/api/invoices/[id]/void': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/pdf': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/payments': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/payments/[paymentId]/refund': {
+      params: async (co) => {
+        const inv = await issued(co);
+        const p = await co.owner.post(`/api/invoices/${inv.id}/payments`, { amountCents: 1_000, method: 'check', receivedOn: inv.today });
+        return { id: String(inv.id), paymentId: String(p.body.paymentId) };
+      },
+    },
+    '/api/change-orders/[id]/decision': {
+      params: async (co) => {
+        const { job } = await billableJob(co);
+        return { id: String((await co.owner.post('/api/change-orders', { jobId: job.id, description: 'Probe change', priceCents: 1_000 })).body.id) };
+      },
+    },
+    '/api/public/invoices/[token]/checkout': { params: token },
+    '/api/public/invoices/[token]/pdf': { params: token },
+  };
+})();
