@@ -52,7 +52,7 @@ export default function ChangeOrders({ jobId, initial, today, currency, mayWrite
               </div>
               <p className="text-xs text-galv-600">
                 {c.status === 'approved' ? `Approved ${formatDate(c.approvedOn)} by ${c.approvedByName}` : c.status === 'declined' ? 'Declined' : 'Waiting for the customer'}
-                {c.billedOnInvoiceId ? <> · <a href={`/invoices/${c.billedOnInvoiceId}`}>billed</a></> : c.status === 'approved' ? ' · not billed yet' : ''}
+                {c.billedOnInvoiceId ? <> · <a className="underline" href={`/invoices/${c.billedOnInvoiceId}`}>billed</a></> : c.status === 'approved' ? ' · not billed yet' : ''}
                 {Object.keys(c.costs).length > 0 && ` · est. cost ${Object.entries(c.costs).map(([k, v]) => `${COST_CATEGORY_LABELS[k as CostCategory]} ${m(v ?? 0)}`).join(', ')}`}
               </p>
               {mayWrite && c.status === 'proposed' && (deciding === c.id ? (
