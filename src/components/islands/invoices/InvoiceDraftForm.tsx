@@ -26,7 +26,7 @@ const KIND_HINTS: Record<InvoiceKind, string> = {
   deposit: 'Billed when the customer says yes, before materials are bought.',
   progress: 'Contract to date × percent complete, less what was billed before.',
   final: 'The rest of the contract, and the retainage held on progress bills.',
-  extra: 'Lines of your own, e.g. extra work the customer asked for on site.',
+  extra: 'Lines of your own and approved change orders. They count against the contract: raise it with a change order first.',
 };
 
 /** Drafts an invoice for one job; the server builds the contract lines and checks the limits. */
