@@ -1,5 +1,5 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
+import { createColumnHelper, getCoreRowModel, getPaginationRowModel, getSortedRowModel, useReactTable, type PaginationState, type SortingState } from '@tanstack/react-table';
 import { INVOICE_KIND_LABELS, INVOICE_STATUS_LABELS, type InvoiceKind, type InvoiceStatus } from '../../../lib/billing/invoice';
 import { formatDate, formatMoney, type CurrencyCode } from '../../../lib/format';
 import { api } from '../ui/api';
@@ -31,6 +31,7 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
   const [q, setQ] = useState('');
   const [sorting, setSorting] = useState<SortingState>([]);
   const [loading, setLoading] = useState(false);
+  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 50 });
   const first = useRef(true);
 
   useEffect(() => {
@@ -41,14 +42,14 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
       if (status.length) p.set('status', status.join(','));
       if (q.trim()) p.set('q', q.trim());
       setLoading(true);
-      api<{ items: InvoiceRowView[] }>(`/api/invoices?${p}`, { signal: ctrl.signal }).then((r) => { if (r.ok) setRows(r.data.items); setLoading(false); }).catch(() => {});
+      api<{ items: InvoiceRowView[] }>(`/api/invoices?${p}`, { signal: ctrl.signal }).then((r) => { if (r.ok) { setRows(r.data.items); setPagination((pg) => ({ ...pg, pageIndex: 0 })); } setLoading(false); }).catch(() => {});
     }, 200);
     return () => { clearTimeout(t); ctrl.abort(); };
   }, [status, q]);
 
   const m = (c: number) => formatMoney(c, currency);
   const columns = useMemo(() => [
-    col.accessor((r) => r.numberText ?? '', { id: 'number', header: 'Invoice', cell: (c) => <a className="font-semibold" href={`/invoices/${c.row.original.id}`}>{c.row.original.numberText ?? 'Draft'}</a> }),
+    col.accessor((r) => r.numberText ?? '', { id: 'number', header: 'Invoice', cell: (c) => <a className="whitespace-nowrap font-semibold" href={`/invoices/${c.row.original.id}`}>{c.row.original.numberText ?? 'Draft'}</a> }),
     col.accessor('jobCode', { header: 'Job', cell: (c) => <a href={`/jobs/${c.row.original.jobId}`} className="whitespace-nowrap">{c.getValue()}</a> }),
     col.accessor('customerName', { header: 'Customer' }),
     col.accessor('kind', { header: 'Kind', cell: (c) => INVOICE_KIND_LABELS[c.getValue()] }),
@@ -58,7 +59,10 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
     col.accessor('totalCents', { header: 'Total', cell: (c) => <span className="block text-right">{m(c.getValue())}</span> }),
     col.accessor('balanceCents', { header: 'Balance', cell: (c) => <span className="block text-right font-medium">{m(c.getValue())}</span> }),
   ], [currency]);
-  const table = useReactTable({ data: rows, columns, state: { sorting }, onSortingChange: setSorting, getCoreRowModel: getCoreRowModel(), getSortedRowModel: getSortedRowModel() });
+  const table = useReactTable({
+    data: rows, columns, state: { sorting, pagination }, onSortingChange: setSorting, onPaginationChange: setPagination,
+    getCoreRowModel: getCoreRowModel(), getSortedRowModel: getSortedRowModel(), getPaginationRowModel: getPaginationRowModel(),
+  });
   const toggle = (s: string) => setStatus((cur) => (cur.includes(s) ? cur.filter((x) => x !== s) : [...cur, s]));
   const total = rows.reduce((a, r) => a + r.balanceCents, 0);
 
@@ -91,7 +95,14 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
       <div className="hidden overflow-x-auto rounded-lg border border-galv-200 bg-white sm:block">
         <SortableTable table={table} loading={loading} empty="No invoices match." />
       </div>
-      <p className="text-sm" data-testid="invoices-total">{rows.length} invoice{rows.length === 1 ? '' : 's'} · balance {m(total)}</p>
+      <div className="flex flex-wrap items-center justify-between gap-2 text-sm">
+        <span data-testid="invoices-total">{rows.length} invoice{rows.length === 1 ? '' : 's'} · balance {m(total)}</span>
+        <div className="flex items-center gap-2">
+          <button type="button" className="btn-secondary" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>Previous</button>
+          <span>Page {pagination.pageIndex + 1} of {Math.max(1, table.getPageCount())}</span>
+          <button type="button" className="btn-secondary" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>Next</button>
+        </div>
+      </div>
     </div>
   );
 }

@@ -37,7 +37,7 @@ export default function ReceivablesTable({ initial }: { initial: ReceivablesData
 
   const m = (c: number) => formatMoney(c, data.currency);
   const columns = useMemo(() => [
-    col.accessor('numberText', { header: 'Invoice', cell: (c) => <a className="font-semibold" href={`/invoices/${c.row.original.id}`}>{c.getValue()}</a> }),
+    col.accessor('numberText', { header: 'Invoice', cell: (c) => <a className="whitespace-nowrap font-semibold" href={`/invoices/${c.row.original.id}`}>{c.getValue()}</a> }),
     col.accessor('customerName', { header: 'Customer' }),
     col.accessor('jobCode', { header: 'Job', cell: (c) => <a href={`/jobs/${c.row.original.jobId}`}>{c.getValue()}</a> }),
     col.accessor('dueOn', { header: 'Due', cell: (c) => <span className="whitespace-nowrap">{formatDate(c.getValue())}</span> }),
