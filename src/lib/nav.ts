@@ -13,9 +13,12 @@ export const NAV: NavItem[] = [
   { href: '/', label: 'Dashboard', action: 'dashboard:read', group: 'work' },
   { href: '/jobs', label: 'Jobs', action: 'jobs:read', group: 'work' },
   { href: '/customers', label: 'Customers', action: 'customers:read', group: 'work' },
+  { href: '/invoices', label: 'Invoices', action: 'invoices:read', group: 'money' },
+  { href: '/receivables', label: 'Receivables', action: 'receivables:read', group: 'money' },
   { href: '/settings', label: 'Company settings', action: 'settings:write', group: 'company' },
   { href: '/settings/members', label: 'Members', action: 'members:read', group: 'company' },
   { href: '/settings/permissions', label: 'Permissions', action: 'settings:read', group: 'company' },
+  { href: '/settings/reminders', label: 'Reminders and billing', action: 'reminders:write', group: 'company' },
 ];
 
 export const NAV_GROUPS: Record<NavItem['group'], string> = {

@@ -1,3 +1,19 @@
 // Each feature that makes attachments or needs periodic work registers it here, so the
 // worker process loads it. (Imports only; see registerAttachment / registerPeriodic.)
-export {};
+import { registerAttachment, registerPeriodic } from './outbox/worker.ts';
+import { invoicePdf } from './services/invoice-pdf.ts';
+import { sendDueReminders } from './services/reminders.ts';
+
+registerAttachment('invoice-pdf', async (ref, organizationId) => {
+  if (!organizationId) throw new Error('invoice PDF without a company');
+  return (await invoicePdf(organizationId, Number(ref.invoiceId))).pdf;
+});
+
+/** Reminders are looked at every few seconds at most (REMINDER_EVERY_MS); sending is once per invoice and day anyway. */
+const every = Number(process.env.REMINDER_EVERY_MS ?? 5_000);
+let last = 0;
+registerPeriodic(async () => {
+  if (Date.now() - last < every) return;
+  last = Date.now();
+  await sendDueReminders();
+});

@@ -1,0 +1,107 @@
+import Stripe from 'stripe';
+import { expect } from 'vitest';
+import type { Client } from './client';
+import { makeCustomer, makeJob, type TestCompany } from './factory';
+import { testDb } from './db';
+import { stack } from './stack';
+
+async function ok<T = any>(p: Promise<{ status: number; body: T; text: string }>, what: string): Promise<T> {
+  const r = await p;
+  if (r.status >= 300) throw new Error(`${what}: ${r.status} ${r.text.slice(0, 400)}`);
+  return r.body;
+}
+
+/**
+ * A job with a contract price and a customer with an e-mail address. The contract is set in
+ * the database the way accepting a bid sets it; estimates split 55 % materials.
+ */
+export async function billableJob(co: TestCompany, contractCents = 1_000_000, extra: Record<string, unknown> = {}) {
+  const customer = await makeCustomer(co.owner);
+  const email = (await co.owner.get(`/api/customers/${customer.id}`)).body.email as string;
+  const job = await makeJob(co.owner, customer.id, { status: 'won', ...extra });
+  await testDb()('jobs').where({ id: job.id, organization_id: co.id }).update({ contract_cents: contractCents });
+  const cost = Math.round(contractCents * 0.7);
+  await testDb()('job_estimates').insert([
+    { organization_id: co.id, job_id: job.id, category: 'material', amount_cents: Math.round(cost * 0.55), source: 'bid' },
+    { organization_id: co.id, job_id: job.id, category: 'labour', amount_cents: cost - Math.round(cost * 0.55), source: 'bid' },
+  ]);
+  return { job, customer, email };
+}
+
+export const draft = (c: Client, body: Record<string, unknown>) => ok(c.post('/api/invoices', { terms: 'net_15', ...body }), 'draft');
+export const issue = (c: Client, id: number) => ok(c.post(`/api/invoices/${id}/issue`), 'issue');
+export const send = (c: Client, id: number) => ok(c.post(`/api/invoices/${id}/send`), 'send');
+export const getInvoice = (c: Client, id: number) => ok(c.get(`/api/invoices/${id}`), 'get invoice');
+
+/** The customer's link in an e-mail body. */
+export function payLink(text: string): string {
+  const m = /https?:\/\/[^\s"<>]+\/pay\/[A-Za-z0-9._-]+/.exec(text);
+  if (!m) throw new Error(`no pay link in: ${text.slice(0, 300)}`);
+  return m[0];
+}
+
+/** Presses a button on the stand-in's hosted page, as the customer's browser would; returns where it sends them. */
+export async function hostedPage(sessionUrl: string, action: 'pay' | 'decline' | 'cancel'): Promise<{ status: number; location: string | null; html: string }> {
+  const page = await fetch(sessionUrl);
+  expect(page.status).toBe(200);
+  const res = await fetch(`${sessionUrl}/${action}`, { method: 'POST', body: 'email=x', headers: { 'content-type': 'application/x-www-form-urlencoded' }, redirect: 'manual' });
+  return { status: res.status, location: res.headers.get('location'), html: await res.text() };
+}
+
+export interface FakeEvent { id: string; type: string; payload: string; deliveries: { status: number }[] }
+
+export async function fakeEvents(): Promise<FakeEvent[]> {
+  return (await fetch(`${stack().stripeApi}/_fake/events`)).json() as Promise<FakeEvent[]>;
+}
+
+const signer = new Stripe('sk_test_signer');
+
+/** Posts an event body to the app's webhook, signed with the stack's secret (or another), at a chosen time. */
+export async function postWebhook(client: Client, payload: string, opts: { secret?: string; timestamp?: number } = {}) {
+  const header = signer.webhooks.generateTestHeaderString({ payload, secret: opts.secret ?? stack().stripeWebhookSecret, timestamp: opts.timestamp });
+  return client.request('POST', '/api/stripe/webhook', { body: payload, headers: { 'content-type': 'application/json', 'stripe-signature': header }, origin: null });
+}
+
+export async function waitFor<T>(fn: () => Promise<T>, okWhen: (v: T) => boolean, timeoutMs = 20_000): Promise<T> {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const v = await fn();
+    if (okWhen(v)) return v;
+    if (Date.now() > until) throw new Error(`condition not met in ${timeoutMs} ms: ${JSON.stringify(v).slice(0, 300)}`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+}
+
+/**
+ * Ids for the billing routes, in the shape the permission-matrix test's FIXTURES take
+ * ({ pattern: { params(co) } }): each call makes fresh records in the company.
+ */
+export const BILLING_FIXTURES: Record<string, { params: (co: TestCompany) => Promise<Record<string, string>> }> = (() => {
+  const draftId = async (co: TestCompany) => String((await draft(co.owner, { jobId: (await billableJob(co)).job.id, kind: 'deposit', basisPct: 10 })).id);
+  const issued = async (co: TestCompany) => issue(co.owner, Number(await draftId(co)));
+  const token = async (co: TestCompany) => ({ token: ((await issued(co)).publicUrl as string).split('/pay/')[1] });
+  const byId = { params: async (co: TestCompany) => ({ id: await draftId(co) }) };
+  return {
+    '/api/invoices/[id]': byId,
+    '/api/invoices/[id]/issue': byId,
+    '/api/invoices/[id]/send': byId,
+    '/api/invoices/[id]/void': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/pdf': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/payments': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/payments/[paymentId]/refund': {
+      params: async (co) => {
+        const inv = await issued(co);
+        const p = await co.owner.post(`/api/invoices/${inv.id}/payments`, { amountCents: 1_000, method: 'check', receivedOn: inv.today });
+        return { id: String(inv.id), paymentId: String(p.body.paymentId) };
+      },
+    },
+    '/api/change-orders/[id]/decision': {
+      params: async (co) => {
+        const { job } = await billableJob(co);
+        return { id: String((await co.owner.post('/api/change-orders', { jobId: job.id, description: 'Probe change', priceCents: 1_000 })).body.id) };
+      },
+    },
+    '/api/public/invoices/[token]/checkout': { params: token },
+    '/api/public/invoices/[token]/pdf': { params: token },
+  };
+})();
