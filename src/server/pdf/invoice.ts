@@ -4,7 +4,7 @@ import { TERMS_LABELS } from '../../lib/billing/terms.ts';
 import { INVOICE_STATUS_LABELS } from '../../lib/billing/invoice.ts';
 import type { InvoiceDetail } from '../services/invoices.ts';
 import type { BillingSettings } from '../repos/billing-settings.ts';
-import { interFont } from './font.ts';
+import { INTER_REGULAR, INTER_SEMIBOLD } from './font.ts';
 
 const INK = '#1f262b';
 const MUTED = '#5e717e';
@@ -20,15 +20,15 @@ export function renderInvoicePdf(inv: InvoiceDetail, s: BillingSettings): Promis
     doc.on('end', () => resolve(Buffer.concat(chunks)));
     doc.on('error', reject);
   });
-  doc.registerFont('Inter', interFont());
+  doc.registerFont('Inter', INTER_REGULAR);
+  doc.registerFont('Inter-SemiBold', INTER_SEMIBOLD);
   doc.font('Inter');
   const cur: CurrencyCode = s.currency;
   const m = (c: number) => formatMoney(c, cur);
   const left = 54;
   const width = doc.page.width - 108;
   const bottom = doc.page.height - 72;
-  // Emphasis by a thin outline on the glyphs: the shipped font is one variable file.
-  const strong = (text: string, x: number, y: number, opts: PDFKit.Mixins.TextOptions = {}) => doc.save().lineWidth(0.35).strokeColor(INK).text(text, x, y, { ...opts, stroke: true, fill: true }).restore();
+  const strong = (text: string, x: number, y: number, opts: PDFKit.Mixins.TextOptions = {}) => doc.font('Inter-SemiBold').text(text, x, y, opts).font('Inter');
 
   doc.fillColor(TIMBER).fontSize(18);
   strong(s.companyName, left, 54, { width: width / 2 });

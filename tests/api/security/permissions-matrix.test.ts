@@ -3,6 +3,7 @@ import { ROLES, can, type Action, type Role } from '../../../src/lib/auth/permis
 import { Client } from '../../setup/client';
 import { makeCompany, makeCustomer, makeJob, uniqueEmail, type TestCompany } from '../../setup/factory';
 import { apiRoutes, type ApiRoute, type Method } from '../../setup/routes';
+import { BILLING_FIXTURES } from '../../setup/invoices';
 
 /**
  * Every API route × every role, plus signed out and a member of another company, against
@@ -17,6 +18,7 @@ interface Fixture {
 }
 
 const FIXTURES: Record<string, Fixture> = {
+  ...BILLING_FIXTURES,
   '/api/jobs/[id]': { params: async (co) => ({ id: String(await assignedJob(co)) }) },
   '/api/customers/[id]': { params: async (co) => ({ id: String((await makeCustomer(co.owner)).id) }) },
   '/api/members/[id]': {
