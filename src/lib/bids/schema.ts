@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { layoutInput } from '../takeoff/input.ts';
 import { recipeSchema, type Recipe } from '../takeoff/recipe.ts';
 import { computeTakeoff, type Takeoff, type TakeoffFailure } from '../takeoff/takeoff.ts';
-import type { Rates } from '../takeoff/rates.ts';
+import { ratesSchema, type Rates } from '../takeoff/rates.ts';
 import type { SiteRules } from '../takeoff/input.ts';
 import { extraLine, lineOverride, priceTakeoff, pricingTarget, type PriceItem, type Pricing, type PricingSettings } from '../pricing/price.ts';
 
@@ -36,6 +36,8 @@ export type BidInput = z.output<typeof bidInput>;
 export const takeoffRequest = layoutInput.extend({
   styleId: z.number().int().positive().optional(),
   recipe: recipeSchema.optional(),
+  /** labour rates to use; a saved style's current rates when left out */
+  rates: ratesSchema.optional(),
 }).refine((r) => (r.styleId === undefined) !== (r.recipe === undefined), { path: ['styleId'], message: 'Give either styleId or a recipe, not both.' });
 
 export const bidPatch = z.strictObject({

@@ -118,3 +118,18 @@ export function recipeSkus(r: Recipe): { sku: string; label: string }[] {
   const seen = new Set<string>();
   return out.filter((x) => (seen.has(x.sku) ? false : (seen.add(x.sku), true)));
 }
+
+export const STYLE_KINDS = ['wood_privacy', 'split_rail', 'wire_panel', 'chain_link', 'vinyl', 'ornamental', 'picket'] as const;
+export const STYLE_KIND_LABELS: Record<(typeof STYLE_KINDS)[number], string> = {
+  wood_privacy: 'Wood privacy', split_rail: 'Split rail', wire_panel: 'Wire panel in timber frame', chain_link: 'Chain link',
+  vinyl: 'Vinyl', ornamental: 'Ornamental steel', picket: 'Wood picket',
+};
+
+export const styleInput = z.strictObject({
+  name: z.string().trim().min(1, 'Name the style.').max(120, 'At most 120 characters.'),
+  kind: z.enum(STYLE_KINDS, { message: 'Choose a kind.' }),
+  description: z.string().trim().max(2000).nullish().transform((v) => (v ? v : null)),
+  active: z.boolean().default(true),
+  recipe: recipeSchema,
+});
+export const stylePatch = styleInput.partial();
