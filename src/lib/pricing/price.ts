@@ -37,7 +37,7 @@ export type ExtraLine = z.output<typeof extraLine>;
 
 export const lineOverride = z.strictObject({
   key: z.string().min(1).max(120),
-  qty: z.number().finite().min(0, 'Cannot be negative.').max(1_000_000).nullable().default(null),
+  qty: z.number().min(0, 'Cannot be negative.').max(1_000_000).nullable().default(null),
   unitCostCents: cents.nullable().default(null),
   note: z.string().trim().max(200).default(''),
 });
@@ -46,7 +46,7 @@ export type LineOverride = z.output<typeof lineOverride>;
 export const pricingTarget = z.strictObject({
   mode: z.enum(['margin', 'markup']),
   /** percent */
-  pct: z.number({ message: 'Enter a percentage.' }).finite().min(0, 'Cannot be negative.').max(500, 'At most 500 %.'),
+  pct: z.number({ message: 'Enter a percentage.' }).min(0, 'Cannot be negative.').max(500, 'At most 500 %.'),
   includeTax: z.boolean().default(true),
 }).refine((t) => t.mode !== 'margin' || t.pct < 95, { path: ['pct'], message: 'A margin must be under 95 %.' });
 export type PricingTarget = z.output<typeof pricingTarget>;

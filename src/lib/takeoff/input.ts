@@ -5,16 +5,16 @@ export type YardPosition = (typeof YARD_POSITIONS)[number];
 export const YARD_LABELS: Record<YardPosition, string> = { front: 'Front yard', side: 'Side yard', back: 'Back yard' };
 
 const feet = (what: string, max: number) =>
-  z.number({ message: `Enter the ${what} in feet.` }).finite(`Enter the ${what} in feet.`).gt(0, `The ${what} must be more than 0 ft.`).max(max, `At most ${max} ft.`);
+  z.number({ message: `Enter the ${what} in feet.` }).gt(0, `The ${what} must be more than 0 ft.`).max(max, `At most ${max} ft.`);
 
 /** A straight stretch of fence. */
 export const runInput = z.strictObject({
   label: z.string().trim().max(60).default(''),
   lengthFt: feet('length', 2000),
   /** Height above grade, inches. */
-  heightIn: z.number({ message: 'Enter the height in inches.' }).finite('Enter the height in inches.').gt(0, 'The height must be more than 0 in.').max(240, 'At most 240 in.'),
+  heightIn: z.number({ message: 'Enter the height in inches.' }).gt(0, 'The height must be more than 0 in.').max(240, 'At most 240 in.'),
   /** Compass-free direction for the sketch: 0 = to the right, 90 = up the page. */
-  headingDeg: z.number().finite().min(-360).max(360).default(0),
+  headingDeg: z.number().min(-360).max(360).default(0),
   /** This run starts at the end of the run before it and shares that post (a corner). */
   connectsToPrevious: z.boolean().default(false),
   yard: z.enum(['front', 'side', 'back']).default('back'),
@@ -26,7 +26,7 @@ export const gateInput = z.strictObject({
   widthFt: feet('gate width', 40),
   kind: z.enum(['single', 'double']).default('single'),
   /** Feet from the run's start to the gate's near post; null centres it. */
-  offsetFt: z.number().finite().min(0, 'Cannot be negative.').nullable().default(null),
+  offsetFt: z.number().min(0, 'Cannot be negative.').nullable().default(null),
 });
 export type GateInput = z.output<typeof gateInput>;
 

@@ -22,7 +22,7 @@ export const RATE_INFO: Record<RateKind, { label: string; unit: string; min: num
 export const ratesSchema = z.strictObject(
   Object.fromEntries(RATE_KINDS.map((k) => {
     const i = RATE_INFO[k];
-    let s = z.number({ message: 'Enter a number.' }).finite().min(i.min, `At least ${i.min}.`).max(i.max, `At most ${i.max}.`);
+    let s = z.number({ message: 'Enter a number.' }).min(i.min, `At least ${i.min}.`).max(i.max, `At most ${i.max}.`);
     if (i.integer) s = s.int('Use a whole number.');
     return [k, s];
   })) as Record<RateKind, z.ZodNumber>,

@@ -6,7 +6,7 @@ import { z } from 'zod';
  */
 
 const num = (min: number, max: number, what = 'This') =>
-  z.number({ message: `${what} must be a number.` }).finite().min(min, `At least ${min}.`).max(max, `At most ${max}.`);
+  z.number({ message: `${what} must be a number.` }).min(min, `At least ${min}.`).max(max, `At most ${max}.`);
 const sku = z.string().trim().min(1, 'Give the price-book item code.').max(80);
 const label = z.string().trim().min(1, 'Give it a name.').max(120);
 

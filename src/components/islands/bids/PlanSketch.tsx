@@ -1,0 +1,94 @@
+import type { RunInput, GateInput } from '../../../lib/takeoff/input';
+import type { Takeoff } from '../../../lib/takeoff/takeoff';
+
+interface Props {
+  runs: RunInput[];
+  gates: GateInput[];
+  takeoff: Takeoff | null;
+}
+
+interface Placed { x0: number; y0: number; dx: number; dy: number; run: RunInput }
+
+/** Lays the runs out in feet: a connected run starts where the one before it ends. */
+export function placeRuns(runs: RunInput[]): Placed[] {
+  const out: Placed[] = [];
+  let cx = 0, cy = 0, freeY = 0;
+  runs.forEach((run, i) => {
+    const rad = (run.headingDeg * Math.PI) / 180;
+    const dx = Math.cos(rad), dy = -Math.sin(rad);
+    if (i > 0 && !run.connectsToPrevious) {
+      const ys = out.flatMap((p) => [p.y0, p.y0 + p.dy * p.run.lengthFt]);
+      freeY = Math.max(...ys) + 12;
+      cx = 0; cy = freeY;
+    }
+    out.push({ x0: cx, y0: cy, dx, dy, run });
+    cx += dx * run.lengthFt;
+    cy += dy * run.lengthFt;
+  });
+  return out;
+}
+
+/** A plan of the runs drawn to scale, with posts, gates and a scale bar. */
+export default function PlanSketch({ runs, gates, takeoff }: Props) {
+  if (!runs.length) return null;
+  const placed = placeRuns(runs);
+  const xs = placed.flatMap((p) => [p.x0, p.x0 + p.dx * p.run.lengthFt]);
+  const ys = placed.flatMap((p) => [p.y0, p.y0 + p.dy * p.run.lengthFt]);
+  const pad = 6;
+  const minX = Math.min(...xs) - pad, maxX = Math.max(...xs) + pad, minY = Math.min(...ys) - pad, maxY = Math.max(...ys) + pad;
+  const w = Math.max(maxX - minX, 30), h = Math.max(maxY - minY, 20);
+  const scaleFt = w > 200 ? 50 : w > 80 ? 20 : 10;
+  const stroke = Math.max(w, h) / 300;
+  const at = (p: Placed, ft: number) => [p.x0 + p.dx * ft, p.y0 + p.dy * ft] as const;
+
+  return (
+    <figure className="rounded-md border border-galv-200 bg-white p-2" aria-label="Plan sketch of the runs, drawn to scale">
+      <svg viewBox={`${minX} ${minY} ${w} ${h}`} className="h-64 w-full" role="img" data-testid="plan-sketch">
+        <title>Plan of the runs to scale</title>
+        {placed.map((p, i) => {
+          const runGates = gates.map((g, gi) => ({ g, gi })).filter(({ g }) => g.runIndex === i);
+          const segs = takeoff?.runs[i]?.segments ?? [{ fromFt: 0, toFt: p.run.lengthFt, lengthFt: p.run.lengthFt, bays: 1, bayFt: p.run.lengthFt }];
+          const [ex, ey] = at(p, p.run.lengthFt);
+          const [mx, my] = at(p, p.run.lengthFt / 2);
+          return (
+            <g key={i}>
+              <line x1={p.x0} y1={p.y0} x2={ex} y2={ey} stroke="#cbd4da" strokeWidth={stroke * 2} strokeLinecap="round" />
+              {segs.map((s, k) => {
+                const [sx, sy] = at(p, s.fromFt);
+                const [tx, ty] = at(p, s.toFt);
+                return (
+                  <g key={k}>
+                    <line x1={sx} y1={sy} x2={tx} y2={ty} stroke="#7c4728" strokeWidth={stroke * 2.5} />
+                    {Array.from({ length: s.bays + 1 }, (_, b) => {
+                      const [px, py] = at(p, s.fromFt + b * s.bayFt);
+                      return <rect key={b} x={px - stroke * 2} y={py - stroke * 2} width={stroke * 4} height={stroke * 4} fill="#3e4a53" />;
+                    })}
+                  </g>
+                );
+              })}
+              {runGates.map(({ g, gi }) => {
+                const from = g.offsetFt ?? (p.run.lengthFt - g.widthFt) / 2;
+                const [gx, gy] = at(p, from);
+                const [hx, hy] = at(p, from + g.widthFt);
+                return (
+                  <g key={`g${gi}`}>
+                    <line x1={gx} y1={gy} x2={hx} y2={hy} stroke="#4f7a32" strokeWidth={stroke * 2} strokeDasharray={`${stroke * 4} ${stroke * 3}`} />
+                    <text x={(gx + hx) / 2} y={(gy + hy) / 2 - stroke * 6} fontSize={stroke * 11} textAnchor="middle" fill="#3e6127">gate {g.widthFt} ft</text>
+                  </g>
+                );
+              })}
+              <text x={mx + p.dy * stroke * 14} y={my - p.dx * stroke * 14 + stroke * 4} fontSize={stroke * 11} textAnchor="middle" fill="#343e45">
+                {p.run.label || `Run ${i + 1}`} · {p.run.lengthFt} ft
+              </text>
+            </g>
+          );
+        })}
+        <g>
+          <line x1={minX + 2} y1={maxY - 2} x2={minX + 2 + scaleFt} y2={maxY - 2} stroke="#1f262b" strokeWidth={stroke * 1.5} />
+          <text x={minX + 2 + scaleFt / 2} y={maxY - 2 - stroke * 4} fontSize={stroke * 10} textAnchor="middle" fill="#1f262b">{scaleFt} ft</text>
+        </g>
+      </svg>
+      <figcaption className="text-xs text-galv-500">Drawn to scale. Squares are posts; dashed green is a gate opening.</figcaption>
+    </figure>
+  );
+}
