@@ -136,7 +136,7 @@ export default function BidBuilder(p: Props) {
   return (
     <div className="space-y-4" data-testid="bid-builder">
       <div className="grid gap-4 xl:grid-cols-5">
-        <section className="card space-y-4 xl:col-span-3" aria-labelledby="geometry">
+        <section className="card min-w-0 space-y-4 xl:col-span-3" aria-labelledby="geometry">
           <div className="flex flex-wrap items-end gap-3">
             <h2 id="geometry" className="mr-auto">Runs and gates</h2>
             <label className="min-w-[14rem]">
@@ -150,12 +150,12 @@ export default function BidBuilder(p: Props) {
           {style && <p className="text-xs text-galv-600">{style.name}: {style.recipe.heightMinIn}–{style.recipe.heightMaxIn} in high, posts at most {style.recipe.spacingFt} ft on centre.</p>}
           <div className="overflow-x-auto">
             <table className="table-dense" aria-label="Runs">
-              <thead><tr><th>#</th><th>Name</th><th>Length (ft)</th><th>Height (in)</th><th>Direction</th><th>Joins the run before</th><th>Yard</th><th /></tr></thead>
+              <thead><tr><th>#</th><th>Name</th><th>Length (ft)</th><th>Height (in)</th><th>Direction</th><th title="Starts at the end of the run before, sharing its corner post">Corner</th><th>Yard</th><th /></tr></thead>
               <tbody>
                 {runs.map((r, i) => (
                   <tr key={i}>
                     <td className="text-galv-500">{i + 1}</td>
-                    <td><input className="input min-w-[7rem]" aria-label={`Run ${i + 1} name`} value={r.label} placeholder={`Run ${i + 1}`} onChange={(e) => setRun(i, { label: e.target.value })} /></td>
+                    <td><input className="input w-28" aria-label={`Run ${i + 1} name`} value={r.label} placeholder={`Run ${i + 1}`} onChange={(e) => setRun(i, { label: e.target.value })} /></td>
                     <td>
                       <input className={`${inputCls(`runs.${i}.lengthFt`)} w-24`} inputMode="decimal" aria-label={`Run ${i + 1} length in feet`} aria-invalid={Boolean(f(`runs.${i}.lengthFt`))} value={r.lengthFt} onChange={(e) => setRun(i, { lengthFt: e.target.value })} />
                       <ErrorText id={`runs.${i}.lengthFt-error`} text={f(`runs.${i}.lengthFt`)} />
@@ -173,8 +173,8 @@ export default function BidBuilder(p: Props) {
                       <input type="checkbox" aria-label={`Run ${i + 1} joins the run before at a shared corner post`} disabled={i === 0} checked={r.connectsToPrevious} onChange={(e) => setRun(i, { connectsToPrevious: e.target.checked })} />
                     </td>
                     <td>
-                      <select className="input w-32" aria-label={`Run ${i + 1} yard`} value={r.yard} onChange={(e) => setRun(i, { yard: e.target.value as YardPosition })}>
-                        {YARD_POSITIONS.map((y) => <option key={y} value={y}>{YARD_LABELS[y]}</option>)}
+                      <select className="input w-28" aria-label={`Run ${i + 1} yard`} value={r.yard} onChange={(e) => setRun(i, { yard: e.target.value as YardPosition })}>
+                        {YARD_POSITIONS.map((y) => <option key={y} value={y}>{YARD_LABELS[y].replace(' yard', '')}</option>)}
                       </select>
                     </td>
                     <td>{runs.length > 1 && <button type="button" className="text-xs text-rust-700 underline" onClick={() => removeRun(i)}>Remove</button>}</td>
@@ -227,7 +227,7 @@ export default function BidBuilder(p: Props) {
           <PlanSketch runs={parsed.success ? parsed.data.runs : []} gates={parsed.success ? parsed.data.gates : []} takeoff={takeoff} />
         </section>
 
-        <section className="card space-y-3 xl:col-span-2" aria-labelledby="takeoff-h" aria-live="polite">
+        <section className="card min-w-0 space-y-3 xl:col-span-2" aria-labelledby="takeoff-h" aria-live="polite">
           <h2 id="takeoff-h">Takeoff</h2>
           {!takeoff && <p className="text-sm text-galv-600">Enter a length and a height for each run to see the takeoff.</p>}
           {takeoff && (
@@ -288,7 +288,7 @@ export default function BidBuilder(p: Props) {
       </div>
 
       {pricing && takeoff && (
-        <section className="card space-y-3" aria-labelledby="lines-h">
+        <section className="card min-w-0 space-y-3" aria-labelledby="lines-h">
           <h2 id="lines-h">Buy list, labour and rentals</h2>
           <div className="overflow-x-auto">
             <table className="table-dense" data-testid="bid-lines">

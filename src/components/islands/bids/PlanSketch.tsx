@@ -36,14 +36,18 @@ export default function PlanSketch({ runs, gates, takeoff }: Props) {
   const ys = placed.flatMap((p) => [p.y0, p.y0 + p.dy * p.run.lengthFt]);
   const pad = 6;
   const minX = Math.min(...xs) - pad, maxX = Math.max(...xs) + pad, minY = Math.min(...ys) - pad, maxY = Math.max(...ys) + pad;
-  const w = Math.max(maxX - minX, 30), h = Math.max(maxY - minY, 20);
+  // Widen or heighten the box to about 5:2 so text and posts keep one size on screen.
+  let w = Math.max(maxX - minX, 30), h = Math.max(maxY - minY, 12);
+  let x0 = minX, y0 = minY;
+  if (w < h * 2.5) { x0 -= (h * 2.5 - w) / 2; w = h * 2.5; }
+  if (h < w / 2.5) { y0 -= (w / 2.5 - h) / 2; h = w / 2.5; }
   const scaleFt = w > 200 ? 50 : w > 80 ? 20 : 10;
-  const stroke = Math.max(w, h) / 300;
+  const stroke = w / 500;
   const at = (p: Placed, ft: number) => [p.x0 + p.dx * ft, p.y0 + p.dy * ft] as const;
 
   return (
     <figure className="rounded-md border border-galv-200 bg-white p-2" aria-label="Plan sketch of the runs, drawn to scale">
-      <svg viewBox={`${minX} ${minY} ${w} ${h}`} className="h-64 w-full" role="img" data-testid="plan-sketch">
+      <svg viewBox={`${x0} ${y0} ${w} ${h}`} className="h-auto w-full" role="img" data-testid="plan-sketch">
         <title>Plan of the runs to scale</title>
         {placed.map((p, i) => {
           const runGates = gates.map((g, gi) => ({ g, gi })).filter(({ g }) => g.runIndex === i);
@@ -73,7 +77,7 @@ export default function PlanSketch({ runs, gates, takeoff }: Props) {
                 return (
                   <g key={`g${gi}`}>
                     <line x1={gx} y1={gy} x2={hx} y2={hy} stroke="#4f7a32" strokeWidth={stroke * 2} strokeDasharray={`${stroke * 4} ${stroke * 3}`} />
-                    <text x={(gx + hx) / 2} y={(gy + hy) / 2 - stroke * 6} fontSize={stroke * 11} textAnchor="middle" fill="#3e6127">gate {g.widthFt} ft</text>
+                    <text x={(gx + hx) / 2 - p.dy * stroke * 12} y={(gy + hy) / 2 + p.dx * stroke * 12 + stroke * 4} fontSize={stroke * 11} textAnchor="middle" fill="#3e6127">gate {g.widthFt} ft</text>
                   </g>
                 );
               })}
@@ -84,8 +88,8 @@ export default function PlanSketch({ runs, gates, takeoff }: Props) {
           );
         })}
         <g>
-          <line x1={minX + 2} y1={maxY - 2} x2={minX + 2 + scaleFt} y2={maxY - 2} stroke="#1f262b" strokeWidth={stroke * 1.5} />
-          <text x={minX + 2 + scaleFt / 2} y={maxY - 2 - stroke * 4} fontSize={stroke * 10} textAnchor="middle" fill="#1f262b">{scaleFt} ft</text>
+          <line x1={x0 + 2} y1={y0 + h - 2} x2={x0 + 2 + scaleFt} y2={y0 + h - 2} stroke="#1f262b" strokeWidth={stroke * 1.5} />
+          <text x={x0 + 2 + scaleFt / 2} y={y0 + h - 2 - stroke * 4} fontSize={stroke * 10} textAnchor="middle" fill="#1f262b">{scaleFt} ft</text>
         </g>
       </svg>
       <figcaption className="text-xs text-galv-500">Drawn to scale. Squares are posts; dashed green is a gate opening.</figcaption>
