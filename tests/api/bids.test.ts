@@ -115,7 +115,7 @@ describe('bids on a job', () => {
     expect(rates.every((x) => x.rate_version_id !== null)).toBe(true);
     const cats = await testDb()('bid_cost_categories').where({ bid_id: b.id });
     expect(cats.map((c) => c.category).sort()).toEqual([...COST_CATEGORIES].sort());
-    expect(JSON.parse(row.recipe).spacingFt).toBe(8);
+    expect((typeof row.recipe === 'string' ? JSON.parse(row.recipe) : row.recipe).spacingFt).toBe(8);
   });
 
   it('accepting fixes the contract and the estimate by category, and leaves change orders alone', async () => {

@@ -44,9 +44,9 @@ const COLUMNS: Record<keyof ChecklistInput, string> = {
 export async function saveChecklist(companyId: string, jobId: number, input: Partial<ChecklistInput>, extra: Record<string, unknown>, userId: string, trx: Knex.Transaction): Promise<void> {
   const row: Record<string, unknown> = { ...extra, updated_by: userId };
   for (const [k, col] of Object.entries(COLUMNS)) if (k in input && (input as Record<string, unknown>)[k] !== undefined) row[col] = (input as Record<string, unknown>)[k];
-  const exists = await trx('job_checklists').where({ organization_id: companyId, job_id: jobId }).forUpdate().first('id');
-  if (exists) await trx('job_checklists').where({ id: exists.id }).update({ ...row, updated_at: trx.fn.now(3) });
-  else await trx('job_checklists').insert({ organization_id: companyId, job_id: jobId, ...row });
+  // Insert-or-ignore, then update: no lock on a row that may not exist yet (a gap lock).
+  await trx('job_checklists').insert({ organization_id: companyId, job_id: jobId }).onConflict(['organization_id', 'job_id']).ignore();
+  await trx('job_checklists').where({ organization_id: companyId, job_id: jobId }).update({ ...row, updated_at: trx.fn.now(3) });
 }
 
 /** Runs of the accepted bid, or of the latest version when none is accepted. */

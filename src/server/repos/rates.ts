@@ -59,11 +59,10 @@ export async function addRateVersions(companyId: string, styleId: number, values
   for (const kind of RATE_KINDS) {
     const value = values[kind];
     if (value === undefined || current.values[kind] === value) continue;
-    let rate = await trx('labour_rates').where({ organization_id: companyId, style_id: styleId, kind }).forUpdate().first('id');
-    if (!rate) {
-      const [id] = await trx('labour_rates').insert({ organization_id: companyId, style_id: styleId, kind });
-      rate = { id };
-    }
+    // Insert-or-ignore rather than SELECT … FOR UPDATE: locking a row that is not there takes
+    // a gap lock, and two companies signing up at once would deadlock on it.
+    await trx('labour_rates').insert({ organization_id: companyId, style_id: styleId, kind }).onConflict(['organization_id', 'style_id', 'kind']).ignore();
+    const rate = await trx('labour_rates').where({ organization_id: companyId, style_id: styleId, kind }).first('id');
     const last = await trx('labour_rate_versions').where({ organization_id: companyId, rate_id: rate.id }).max({ n: 'version_no' }).first();
     await trx('labour_rate_versions').insert({
       organization_id: companyId, rate_id: rate.id, version_no: Number(last?.n ?? 0) + 1, value, reason, created_by: userId, ...(at ? { created_at: at } : {}),

@@ -149,3 +149,15 @@ export async function acceptBid(actor: Actor, jobId: number, bidId: number) {
 export async function jobEstimates(actor: Actor, jobId: number) {
   return bids.jobEstimates(actor.companyId, jobId);
 }
+
+/** A job and one of its bid versions for a page, or null for the 404 page. */
+export async function jobAndBid(actor: Actor, jobId: number | null, bidId: number | null) {
+  if (!jobId || !bidId) return null;
+  try {
+    const job = await getJob(actor, jobId);
+    return { job, bid: await getBid(actor, jobId, bidId) };
+  } catch (err) {
+    if (err instanceof AppError && err.code === 'NOT_FOUND') return null;
+    throw err;
+  }
+}
