@@ -151,3 +151,44 @@ describe('the estimator keeps the price book, styles and rates', () => {
     await ctx.close();
   });
 });
+
+describe('before the dig', () => {
+  it('the owner cannot move a job to building without a locate ticket, sees why, and can override in writing', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await signIn(ctx, base(), 'owner@example.com', stack().demoPassword);
+    await page.goto(`${base()}/settings`);
+    await page.getByRole('heading', { name: 'Digging, permits and the locate ticket' }).waitFor();
+    await shot(page, 'settings-dig-rules');
+
+    await page.goto(`${base()}/jobs/new`);
+    await hydrated(page);
+    await page.getByLabel('Title').fill(`Gate check ${Date.now().toString(36)}`);
+    await page.getByLabel('Customer').selectOption({ index: 1 });
+    await page.getByLabel('Status').selectOption({ label: 'Won' });
+    await Promise.all([page.waitForURL(/\/jobs\/\d+$/), page.getByRole('button', { name: 'Create the job' }).click()]);
+    const jobUrl = page.url();
+    expect(await text(page, 'locate-status')).toBe('No locate ticket on file');
+
+    await page.getByRole('link', { name: 'Edit job' }).click();
+    await hydrated(page);
+    await page.getByLabel('Status').selectOption({ label: 'Building' });
+    await page.getByRole('button', { name: 'Save the job' }).click();
+    await expect.poll(() => page.locator('#status-error').textContent()).toMatch(/locate ticket/);
+    await shot(page, 'job-building-needs-locate');
+
+    await page.goto(jobUrl);
+    await hydrated(page);
+    await page.getByText('Let this job build without a current locate ticket…').click();
+    await page.getByLabel('Written reason (kept on the job\'s record)').fill('Posts go into the existing concrete sleeves; nobody digs on this job.');
+    await page.getByRole('button', { name: 'Record the override' }).click();
+    await expect.poll(() => text(page, 'override')).toMatch(/existing concrete sleeves/);
+    await shot(page, 'job-checklist-override');
+
+    await page.getByRole('link', { name: 'Edit job' }).click();
+    await hydrated(page);
+    await page.getByLabel('Status').selectOption({ label: 'Building' });
+    await Promise.all([page.waitForURL(jobUrl), page.getByRole('button', { name: 'Save the job' }).click()]);
+    expect(await page.locator('p', { hasText: 'Building' }).first().textContent()).toMatch(/Building/);
+    await ctx.close();
+  });
+});

@@ -149,23 +149,23 @@ export default function BidBuilder(p: Props) {
           </div>
           {style && <p className="text-xs text-galv-600">{style.name}: {style.recipe.heightMinIn}–{style.recipe.heightMaxIn} in high, posts at most {style.recipe.spacingFt} ft on centre.</p>}
           <div className="overflow-x-auto">
-            <table className="table-dense" aria-label="Runs">
-              <thead><tr><th>#</th><th>Name</th><th>Length (ft)</th><th>Height (in)</th><th>Direction</th><th title="Starts at the end of the run before, sharing its corner post">Corner</th><th>Yard</th><th /></tr></thead>
+            <table className="table-dense [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Runs">
+              <thead><tr><th>#</th><th>Name</th><th>Length ft</th><th>Height in</th><th>Direction</th><th title="Starts at the end of the run before, sharing its corner post">Corner</th><th>Yard</th><th /></tr></thead>
               <tbody>
                 {runs.map((r, i) => (
                   <tr key={i}>
                     <td className="text-galv-500">{i + 1}</td>
-                    <td><input className="input w-28" aria-label={`Run ${i + 1} name`} value={r.label} placeholder={`Run ${i + 1}`} onChange={(e) => setRun(i, { label: e.target.value })} /></td>
+                    <td><input className="input w-24" aria-label={`Run ${i + 1} name`} value={r.label} placeholder={`Run ${i + 1}`} onChange={(e) => setRun(i, { label: e.target.value })} /></td>
                     <td>
-                      <input className={`${inputCls(`runs.${i}.lengthFt`)} w-24`} inputMode="decimal" aria-label={`Run ${i + 1} length in feet`} aria-invalid={Boolean(f(`runs.${i}.lengthFt`))} value={r.lengthFt} onChange={(e) => setRun(i, { lengthFt: e.target.value })} />
+                      <input className={`${inputCls(`runs.${i}.lengthFt`)} w-20`} inputMode="decimal" aria-label={`Run ${i + 1} length in feet`} aria-invalid={Boolean(f(`runs.${i}.lengthFt`))} value={r.lengthFt} onChange={(e) => setRun(i, { lengthFt: e.target.value })} />
                       <ErrorText id={`runs.${i}.lengthFt-error`} text={f(`runs.${i}.lengthFt`)} />
                     </td>
                     <td>
-                      <input className={`${inputCls(`runs.${i}.heightIn`)} w-20`} inputMode="decimal" aria-label={`Run ${i + 1} height in inches`} aria-invalid={Boolean(f(`runs.${i}.heightIn`))} value={r.heightIn} onChange={(e) => setRun(i, { heightIn: e.target.value })} />
+                      <input className={`${inputCls(`runs.${i}.heightIn`)} w-16`} inputMode="decimal" aria-label={`Run ${i + 1} height in inches`} aria-invalid={Boolean(f(`runs.${i}.heightIn`))} value={r.heightIn} onChange={(e) => setRun(i, { heightIn: e.target.value })} />
                       <ErrorText id={`runs.${i}.heightIn-error`} text={f(`runs.${i}.heightIn`)} />
                     </td>
                     <td>
-                      <select className="input w-28" aria-label={`Run ${i + 1} direction`} value={r.headingDeg} onChange={(e) => setRun(i, { headingDeg: e.target.value })}>
+                      <select className="input w-24" aria-label={`Run ${i + 1} direction`} value={r.headingDeg} onChange={(e) => setRun(i, { headingDeg: e.target.value })}>
                         {DIRECTIONS.map(([d, l]) => <option key={d} value={d}>{l}</option>)}
                       </select>
                     </td>
@@ -173,7 +173,7 @@ export default function BidBuilder(p: Props) {
                       <input type="checkbox" aria-label={`Run ${i + 1} joins the run before at a shared corner post`} disabled={i === 0} checked={r.connectsToPrevious} onChange={(e) => setRun(i, { connectsToPrevious: e.target.checked })} />
                     </td>
                     <td>
-                      <select className="input w-28" aria-label={`Run ${i + 1} yard`} value={r.yard} onChange={(e) => setRun(i, { yard: e.target.value as YardPosition })}>
+                      <select className="input w-24" aria-label={`Run ${i + 1} yard`} value={r.yard} onChange={(e) => setRun(i, { yard: e.target.value as YardPosition })}>
                         {YARD_POSITIONS.map((y) => <option key={y} value={y}>{YARD_LABELS[y].replace(' yard', '')}</option>)}
                       </select>
                     </td>
@@ -191,7 +191,7 @@ export default function BidBuilder(p: Props) {
           <ErrorText id="closed-error" text={f('closed') ?? f('runs')} />
           {gates.length > 0 && (
             <div className="overflow-x-auto">
-              <table className="table-dense" aria-label="Gates">
+              <table className="table-dense [&_td]:px-1.5 [&_th]:px-1.5" aria-label="Gates">
                 <thead><tr><th>Gate</th><th>In run</th><th>Width (ft)</th><th>Kind</th><th>From the run's start (ft)</th><th /></tr></thead>
                 <tbody>
                   {gates.map((g, i) => (
