@@ -166,6 +166,13 @@ describe('bids on a job', () => {
     expect((await c.estimator.post(`/api/jobs/${job.id}/bids/${o.body.id}/accept`, {})).status).toBe(200);
   });
 
+  it('gives concurrent saves of one job distinct version numbers', async () => {
+    const job = await makeJob(co.estimator, customerId);
+    const made = await Promise.all(Array.from({ length: 4 }, () => co.estimator.post(`/api/jobs/${job.id}/bids`, twoRunsAndAGate(wood))));
+    expect(made.every((r) => r.status === 201)).toBe(true);
+    expect(made.map((r) => r.body.versionNo).sort()).toEqual([1, 2, 3, 4]);
+  });
+
   it("keeps another company's job and style out", async () => {
     const job = await makeJob(co.estimator, customerId);
     const b = (await co.estimator.post(`/api/jobs/${job.id}/bids`, twoRunsAndAGate(wood))).body;
@@ -234,5 +241,39 @@ describe('before the dig', () => {
     expect(crew.body.locateTicketNumber).toBe('T-0002');
     expect((await co.crew_lead.patch(`/api/jobs/${job.id}/checklist`, { permitRequired: 'yes' })).status).toBe(403);
     expect((await other.owner.get(`/api/jobs/${job.id}/checklist`)).status).toBe(404);
+  });
+});
+
+describe('demo data', () => {
+  it('gives each demo job bids that match its stage, and every won job the estimate its accepted bid priced', async () => {
+    const { DEMO } = await import('../../src/server/seed/demo');
+    const { DEMO_SUPPLIERS } = await import('../../src/server/seed/bids');
+    const k = testDb();
+    const org = DEMO.orgId;
+    const jobs = await k('jobs').where('organization_id', org).select('id', 'status', 'contract_cents');
+    let won = 0;
+    for (const j of jobs) {
+      const bids = await k('bids').where({ organization_id: org, job_id: j.id }).orderBy('version_no');
+      const statuses = bids.map((b) => b.status);
+      if (['won', 'building', 'completed', 'closed'].includes(j.status)) {
+        won++;
+        const accepted = bids.filter((b) => b.status === 'accepted');
+        expect(accepted, `job ${j.id}`).toHaveLength(1);
+        expect(Number(j.contract_cents)).toBe(Number(accepted[0].price_cents));
+        const est = await k('job_estimates').where({ organization_id: org, job_id: j.id, source: 'bid' });
+        expect(est).toHaveLength(COST_CATEGORIES.length);
+        expect(est.every((e) => Number(e.source_id) === Number(accepted[0].id))).toBe(true);
+        expect(est.reduce((a, e) => a + Number(e.amount_cents), 0)).toBe(Number(accepted[0].cost_cents));
+      } else if (j.status === 'lost') expect(statuses).toEqual(['declined']);
+      else if (j.status === 'bid_sent') expect(statuses.length > 0 && statuses.every((s) => s === 'sent')).toBe(true);
+      else expect(statuses.every((s) => s === 'draft')).toBe(true);
+    }
+    expect(won).toBeGreaterThan(10);
+    const unpriced = await k('bid_lines').where({ organization_id: org, priced: false }).count({ n: '*' });
+    expect(Number(unpriced[0].n)).toBe(0);
+    expect(await k('suppliers').where('organization_id', org).pluck('name')).toEqual(expect.arrayContaining([...DEMO_SUPPLIERS]));
+    const woodHistory = await k('labour_rate_versions as v').join('labour_rates as r', 'r.id', 'v.rate_id').join('fence_styles as s', 's.id', 'r.style_id')
+      .where({ 's.organization_id': org, 's.kind': 'wood_privacy' }).max({ n: 'v.version_no' });
+    expect(Number(woodHistory[0].n)).toBeGreaterThanOrEqual(2);
   });
 });
