@@ -38,3 +38,10 @@ export function twoRunsAndAGate(style: number, extra: Record<string, unknown> = 
     ...extra,
   };
 }
+
+/** Puts a locate ticket called in today on a job, so it may move to building. */
+export async function readyToBuild(client: Client, jobId: number) {
+  const r = await client.patch(`/api/jobs/${jobId}/checklist`, { locateTicketNumber: `T-${jobId}`, locateCalledOn: new Date().toISOString().slice(0, 10) });
+  if (r.status !== 200) throw new Error(`checklist failed: ${r.status} ${r.text.slice(0, 200)}`);
+  return r.body;
+}
