@@ -1,5 +1,5 @@
 import type { FieldErrors } from '../errors.ts';
-import { boardFeet, cuInToCuFt, cylinderCuIn, formatFeetInches, ftToIn, roundTo } from '../units.ts';
+import { actualLumberIn, boardFeet, cuInToCuFt, cylinderCuIn, formatFeetInches, ftToIn, roundTo } from '../units.ts';
 import { packStock } from './packing.ts';
 import type { PostSpec, Recipe, WasteKey } from './recipe.ts';
 import type { Rates, LabourTask } from './rates.ts';
@@ -153,14 +153,21 @@ function postLengthFor(recipe: Recipe, heightIn: number, site: SiteRules): { emb
   return { embedmentIn: emb, lengthIn: heightIn + emb };
 }
 
+/** A post's dressed size, inches: a nominal 4×4 of lumber is 3½ × 3½; other posts as given. */
+function postSizeIn(spec: PostSpec): [number, number] {
+  if (spec.shape === 'square' && spec.nominal) return [actualLumberIn(spec.nominal.thicknessIn), actualLumberIn(spec.nominal.widthIn)];
+  return [spec.widthIn, spec.widthIn];
+}
+
 /** 3 × a 3½ in post is 10½ in: augers come in even inches, so round up to 12. */
 function holeDiameterFor(recipe: Recipe, spec: PostSpec): number {
   if (recipe.hole.diameterIn) return recipe.hole.diameterIn;
-  return Math.ceil((recipe.hole.diameterFactor * spec.widthIn) / 2 - EPS) * 2;
+  return Math.ceil((recipe.hole.diameterFactor * Math.max(...postSizeIn(spec))) / 2 - EPS) * 2;
 }
 
 function crossSectionSqIn(spec: PostSpec): number {
-  return spec.shape === 'square' ? spec.widthIn * spec.widthIn : Math.PI * (spec.widthIn / 2) ** 2;
+  const [t, w] = postSizeIn(spec);
+  return spec.shape === 'square' ? t * w : Math.PI * (spec.widthIn / 2) ** 2;
 }
 
 function railsFor(recipe: Recipe, heightIn: number): number {

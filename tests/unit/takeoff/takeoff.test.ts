@@ -201,3 +201,15 @@ describe('bad input', () => {
     for (const [kind, r] of Object.entries(DEFAULT_RECIPES)) expect(recipeSchema.safeParse(r).success, kind).toBe(true);
   });
 });
+
+describe('actual dimensions where volumes need them', () => {
+  it('subtracts a nominal 4×6 post as 3½ × 5½ in (PS 20 dressed sizes) from the concrete', () => {
+    const base = recipeFor('wood_privacy');
+    const r = { ...base, posts: { ...base.posts, line: { ...base.posts.line, label: '4×6 post', widthIn: 5.5, nominal: { thicknessIn: 4, widthIn: 6 } } } };
+    const t = ok(take({ runs: [{ lengthFt: 16, heightIn: 72 }] }, 'wood_privacy', r));
+    const line = t.postGroups.find((g) => g.kind === 'line')!;
+    const d = line.holeDiameterIn;
+    expect(d).toBe(18); // 3 × 5½ = 16½ → the next even auger size
+    expect(line.concreteCuInEach).toBeCloseTo((Math.PI * (d / 2) ** 2 - 3.5 * 5.5) * line.embedmentIn, 3);
+  });
+});
