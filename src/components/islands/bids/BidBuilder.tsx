@@ -224,12 +224,16 @@ export default function BidBuilder(p: Props) {
               </table>
             </div>
           )}
-          <PlanSketch runs={parsed.success ? parsed.data.runs : []} gates={parsed.success ? parsed.data.gates : []} takeoff={takeoff} />
+          <PlanSketch runs={parsed.success ? parsed.data.runs : []} gates={parsed.success && takeoff ? parsed.data.gates : []} takeoff={takeoff} />
         </section>
 
         <section className="card min-w-0 space-y-3 xl:col-span-2" aria-labelledby="takeoff-h" aria-live="polite">
           <h2 id="takeoff-h">Takeoff</h2>
-          {!takeoff && <p className="text-sm text-galv-600">Enter a length and a height for each run to see the takeoff.</p>}
+          {!takeoff && (
+            <p className="text-sm text-galv-600" data-testid="takeoff-waiting">
+              {Object.keys(fields).length ? 'Fix the marked fields; the takeoff and the price follow as soon as they are right.' : 'Enter a length and a height for each run to see the takeoff.'}
+            </p>
+          )}
           {takeoff && (
             <dl className="grid grid-cols-2 gap-x-4 gap-y-1 text-sm" data-testid="takeoff-summary">
               <dt className="text-galv-500">Fence</dt><dd data-testid="takeoff-fence">{q(takeoff.fenceFt)} ft in {takeoff.bays} bays</dd>
