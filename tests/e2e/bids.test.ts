@@ -132,6 +132,24 @@ describe('the estimator keeps the price book, styles and rates', () => {
     await hydrated(page);
     await page.getByText(/History \(\d+ versions\)/).first().click();
     await shot(page, 'labour-rates');
+    const wood = page.getByRole('region', { name: 'Labour rates for Wood privacy 6 ft' });
+    await wood.getByRole('button', { name: 'Change rates' }).click();
+    await wood.getByLabel('New Dig a hole').fill('0.2');
+    await wood.getByRole('button', { name: 'Save as new versions' }).click();
+    await expect.poll(() => wood.getByRole('alert').first().textContent()).toMatch(/Say why/);
+    await wood.getByPlaceholder(/Last five privacy jobs/).fill('Rocky ground on the ridge jobs');
+    await wood.getByRole('button', { name: 'Save as new versions' }).click();
+    await expect.poll(() => wood.getByRole('status').textContent()).toMatch(/1 new rate version saved/);
+    await wood.getByText(/History \(\d+ versions\)/).click();
+    expect(await wood.textContent()).toContain('Rocky ground on the ridge jobs');
+
+    await page.goto(`${base()}/jobs?status=closed`);
+    await hydrated(page);
+    await page.locator('tbody a').first().click();
+    await page.getByTestId('bids-panel').locator('tbody a').first().click();
+    await page.getByTestId('bid-status').waitFor();
+    expect(await text(page, 'bid-status')).toBe('Accepted');
+    await shot(page, 'bid-version-accepted');
     await ctx.close();
   });
 

@@ -120,7 +120,12 @@ export async function seedDemoBids(knex: Knex, today = new Date()): Promise<void
       }));
       const gates: BidInput['gates'] = [];
       if (r.chance(0.8)) gates.push({ runIndex: nRuns - 1, widthFt: 4, kind: 'single', offsetFt: null });
-      if (recipe.gates.double && r.chance(0.25) && runs[0].lengthFt >= 20) gates.push({ runIndex: 0, widthFt: 10, kind: 'double', offsetFt: 2 });
+      // A double drive gate on the first run: centred when the walk gate is on another run,
+      // else 4 ft in from the corner, clear of the walk gate at the middle.
+      if (recipe.gates.double && r.chance(0.25)) {
+        if (nRuns > 1 && runs[0].lengthFt >= 20) gates.push({ runIndex: 0, widthFt: 10, kind: 'double', offsetFt: null });
+        else if (runs[0].lengthFt >= 40) gates.push({ runIndex: 0, widthFt: 10, kind: 'double', offsetFt: 4 });
+      }
       const extras: BidInput['extras'] = [];
       if (runs.some((x) => x.heightIn > 48 && x.yard !== 'back')) extras.push({ category: 'permit', description: 'Fence permit', amountCents: 7500 });
       if (r.chance(0.35)) extras.push({ category: 'disposal', description: 'Haul away the old fence', amountCents: r.pick([6500, 13000]) });

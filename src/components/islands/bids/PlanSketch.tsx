@@ -44,6 +44,11 @@ export default function PlanSketch({ runs, gates, takeoff }: Props) {
   const scaleFt = w > 200 ? 50 : w > 80 ? 20 : 10;
   const stroke = w / 500;
   const at = (p: Placed, ft: number) => [p.x0 + p.dx * ft, p.y0 + p.dy * ft] as const;
+  /** A label beside a run, on one side of it, anchored so it reads away from the line. */
+  const side = (p: Placed, x: number, y: number, sign: 1 | -1) => {
+    const px = sign * p.dy, py = -sign * p.dx;
+    return { x: x + px * stroke * 10, y: y + py * stroke * 10 + stroke * 4, textAnchor: px < -0.3 ? 'end' : px > 0.3 ? 'start' : 'middle' } as const;
+  };
 
   return (
     <figure className="rounded-md border border-galv-200 bg-white p-2" aria-label="Plan sketch of the runs, drawn to scale">
@@ -77,11 +82,11 @@ export default function PlanSketch({ runs, gates, takeoff }: Props) {
                 return (
                   <g key={`g${gi}`}>
                     <line x1={gx} y1={gy} x2={hx} y2={hy} stroke="#4f7a32" strokeWidth={stroke * 2} strokeDasharray={`${stroke * 4} ${stroke * 3}`} />
-                    <text x={(gx + hx) / 2 - p.dy * stroke * 12} y={(gy + hy) / 2 + p.dx * stroke * 12 + stroke * 4} fontSize={stroke * 11} textAnchor="middle" fill="#3e6127">gate {g.widthFt} ft</text>
+                    <text {...side(p, (gx + hx) / 2, (gy + hy) / 2, -1)} fontSize={stroke * 11} fill="#3e6127">gate {g.widthFt} ft</text>
                   </g>
                 );
               })}
-              <text x={mx + p.dy * stroke * 14} y={my - p.dx * stroke * 14 + stroke * 4} fontSize={stroke * 11} textAnchor="middle" fill="#343e45">
+              <text {...side(p, mx, my, 1)} fontSize={stroke * 11} fill="#343e45">
                 {p.run.label || `Run ${i + 1}`} · {p.run.lengthFt} ft
               </text>
             </g>
