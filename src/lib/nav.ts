@@ -5,7 +5,7 @@ export interface NavItem {
   label: string;
   action: Action;
   /** Grouping in the side bar. */
-  group: 'work' | 'money' | 'insight' | 'company';
+  group: 'work' | 'estimating' | 'money' | 'insight' | 'company';
 }
 
 /** Every screen in the side bar with the permission that shows it; features add theirs. */
@@ -15,6 +15,9 @@ export const NAV: NavItem[] = [
   { href: '/customers', label: 'Customers', action: 'customers:read', group: 'work' },
   { href: '/invoices', label: 'Invoices', action: 'invoices:read', group: 'money' },
   { href: '/receivables', label: 'Receivables', action: 'receivables:read', group: 'money' },
+  { href: '/pricebook', label: 'Price book', action: 'pricebook:read', group: 'estimating' },
+  { href: '/styles', label: 'Fence styles', action: 'styles:read', group: 'estimating' },
+  { href: '/rates', label: 'Labour rates', action: 'styles:read', group: 'estimating' },
   { href: '/settings', label: 'Company settings', action: 'settings:write', group: 'company' },
   { href: '/settings/members', label: 'Members', action: 'members:read', group: 'company' },
   { href: '/settings/permissions', label: 'Permissions', action: 'settings:read', group: 'company' },
@@ -23,6 +26,7 @@ export const NAV: NavItem[] = [
 
 export const NAV_GROUPS: Record<NavItem['group'], string> = {
   work: 'Work',
+  estimating: 'Estimating',
   money: 'Money',
   insight: 'Margins',
   company: 'Company',
@@ -32,8 +36,12 @@ export function navFor(role: Role | null): NavItem[] {
   return NAV.filter((item) => can(role, item.action));
 }
 
-/** True when href is the current page or a section it belongs to. */
-export function isCurrent(href: string, path: string): boolean {
-  if (href === '/') return path === '/';
-  return path === href || path.startsWith(`${href}/`);
+/** The one item the current page belongs to: the longest href that is the path or a parent of it. */
+export function currentHref(items: readonly NavItem[], path: string): string | null {
+  let best: string | null = null;
+  for (const { href } of items) {
+    const match = href === '/' ? path === '/' : path === href || path.startsWith(`${href}/`);
+    if (match && (!best || href.length > best.length)) best = href;
+  }
+  return best;
 }

@@ -8,6 +8,7 @@ import { findCustomer } from '../repos/customers.ts';
 import { styleExists } from '../repos/styles.ts';
 import { isMemberWithRole } from '../repos/members.ts';
 import { audit } from '../repos/audit.ts';
+import { assertCanBuild } from './checklist.ts';
 
 /** A crew lead sees only the jobs assigned to them. */
 export function scopeFor(actor: Actor): jobs.JobScope {
@@ -69,7 +70,9 @@ export async function createJob(actor: Actor, input: JobInput): Promise<Job> {
 }
 
 export async function updateJob(actor: Actor, id: number, input: Partial<JobInput>): Promise<Job> {
-  await getJob(actor, id);
+  const current = await getJob(actor, id);
+  // The stage gate: no building without a current locate ticket or the owner's written override.
+  if (input.status === 'building' && current.status !== 'building') await assertCanBuild(actor.companyId, id);
   await checkReferences(actor, input);
   if (input.code && (await jobs.codeTaken(actor.companyId, input.code, id))) throw duplicateCode(input.code);
   try {

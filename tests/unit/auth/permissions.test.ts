@@ -58,3 +58,14 @@ describe('the role × action table', () => {
     for (const role of ROLES) for (const item of navFor(role)) expect(can(role, item.action)).toBe(true);
   });
 });
+
+describe('the current screen in the side bar', () => {
+  it('is the longest matching entry', async () => {
+    const { currentHref, NAV } = await import('../../../src/lib/nav');
+    expect(currentHref(NAV, '/settings/members')).toBe('/settings/members');
+    expect(currentHref(NAV, '/settings')).toBe('/settings');
+    expect(currentHref(NAV, '/jobs/12/bids/3')).toBe('/jobs');
+    expect(currentHref(NAV, '/')).toBe('/');
+    expect(currentHref(NAV, '/nowhere')).toBeNull();
+  });
+});

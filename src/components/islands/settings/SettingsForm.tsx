@@ -1,5 +1,8 @@
 import { useState, type SubmitEvent } from 'react';
 import { settingsInput, TAX_MODES, TAX_MODE_LABELS, type CompanySettings } from '../../../lib/settings/schema';
+
+const WEEKDAYS = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat'];
+const INCH_KEYS = ['frostDepthIn', 'permitMaxFrontIn', 'permitMaxSideIn', 'permitMaxBackIn'] as const;
 import { api } from '../ui/api';
 import { Field, FormError } from '../ui/Field';
 import { validate } from '../ui/form';
@@ -16,7 +19,13 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
     taxRatePct: String(initial.taxRatePct),
     bidRoundingDollars: String(initial.bidRoundingCents / 100),
     ...Object.fromEntries(TEXT_KEYS.map((k) => [k, initial[k] ?? ''])),
+    ...Object.fromEntries(INCH_KEYS.map((k) => [k, initial[k] == null ? '' : String(initial[k])])),
+    locateWaitBusinessDays: String(initial.locateWaitBusinessDays),
+    locateValidDays: String(initial.locateValidDays),
+    locateValidBasis: initial.locateValidBasis,
+    holidays: initial.holidays.join('\n'),
   }));
+  const [workdays, setWorkdays] = useState<number[]>(initial.businessDays);
   const [fields, setFields] = useState<Record<string, string>>({});
   const [error, setError] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
@@ -24,8 +33,13 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
 
   async function submit(e: SubmitEvent) {
     e.preventDefault();
-    const { bidRoundingDollars, ...rest } = v;
-    const values = { ...rest, bidRoundingCents: Math.round(Number(bidRoundingDollars) * 100) };
+    const { bidRoundingDollars, holidays, ...rest } = v;
+    const values = {
+      ...rest,
+      bidRoundingCents: Math.round(Number(bidRoundingDollars) * 100),
+      businessDays: workdays,
+      holidays: holidays.split(/[\s,]+/).filter(Boolean),
+    };
     const r0 = validate(settingsInput, values);
     if (!r0.ok) { setFields({ ...r0.fields, bidRoundingDollars: r0.fields.bidRoundingCents ?? '' }); return; }
     setFields({});
@@ -64,6 +78,37 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
           {input('phone', 'Phone')}
           {input('email', 'E-mail')}
           {input('licenseNumber', 'Contractor licence number')}
+        </div>
+      </section>
+      <section>
+        <h2 className="mb-2">Digging, permits and the locate ticket</h2>
+        <p className="mb-3 text-sm text-galv-600">Bids and the pre-dig checklist use these. They are the company's planning rules; local codes and the one-call centre's rules govern.</p>
+        <div className="grid gap-4 sm:grid-cols-4">
+          {input('frostDepthIn', 'Frost depth (in)', 'Posts go at least this deep. Empty: no minimum.', 'number')}
+          {input('permitMaxFrontIn', 'No-permit limit, front yard (in)', 'Taller needs a permit. Empty: not set.', 'number')}
+          {input('permitMaxSideIn', 'No-permit limit, side yard (in)', undefined, 'number')}
+          {input('permitMaxBackIn', 'No-permit limit, back yard (in)', undefined, 'number')}
+          {input('locateWaitBusinessDays', 'Wait after the call (business days)', 'Digging may start this many business days after the call.', 'number')}
+          {input('locateValidDays', 'Ticket life (days)', 'Counted from the day it was called in.', 'number')}
+          <Field id="locateValidBasis" label="Ticket life counted in" error={fields.locateValidBasis}>
+            {(p) => <select {...p} value={v.locateValidBasis} onChange={set('locateValidBasis')}><option value="calendar">Calendar days</option><option value="business">Business days</option></select>}
+          </Field>
+        </div>
+        <fieldset className="mt-4">
+          <legend className="label">Business days</legend>
+          <div className="flex flex-wrap gap-3 text-sm">
+            {WEEKDAYS.map((d, i) => (
+              <label key={d} className="flex items-center gap-1">
+                <input type="checkbox" checked={workdays.includes(i)} onChange={() => { setSaved(false); setWorkdays((w) => (w.includes(i) ? w.filter((x) => x !== i) : [...w, i].sort())); }} /> {d}
+              </label>
+            ))}
+          </div>
+          {fields.businessDays && <p className="field-error" role="alert">{fields.businessDays}</p>}
+        </fieldset>
+        <div className="mt-4 max-w-md">
+          <Field id="holidays" label="Holidays (one date a line, e.g. 2026-12-25)" error={fields.holidays ?? Object.entries(fields).find(([k]) => k.startsWith('holidays.'))?.[1]}>
+            {(p) => <textarea {...p} rows={4} value={v.holidays} onChange={set('holidays')} />}
+          </Field>
         </div>
       </section>
       <button className="btn-primary" type="submit">Save settings</button>

@@ -1,0 +1,215 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { computeTakeoff, type Takeoff } from '../../../src/lib/takeoff/takeoff';
+import { recipeFor, ratesFor, DEFAULT_RECIPES } from '../../../src/lib/takeoff/defaults';
+import { layoutInput, NO_SITE_RULES, type SiteRules } from '../../../src/lib/takeoff/input';
+import type { Recipe } from '../../../src/lib/takeoff/recipe';
+import { recipeSchema } from '../../../src/lib/takeoff/recipe';
+
+const take = (layout: unknown, kind = 'wood_privacy', recipe?: Recipe, site: SiteRules = NO_SITE_RULES) =>
+  computeTakeoff(layoutInput.parse(layout), recipe ?? recipeFor(kind), ratesFor(kind), site);
+const ok = (t: ReturnType<typeof take>): Takeoff => {
+  if (!t.ok) throw new Error(JSON.stringify(t.fields));
+  return t;
+};
+const buy = (t: Takeoff, group: string) => t.materials.filter((m) => m.group === group).reduce((a, m) => a + m.buyQty, 0);
+
+describe('rules of thumb (common practice, no source)', () => {
+  it('nine 6 in holes about 18 in deep over a 3–4 in gravel base around 4×4 posts take four to five 50 lb bags', () => {
+    // 64 ft at 8 ft bays is 8 bays and 9 posts. A 42 in fence on posts cut from 10 ft stock in
+    // halves buries about 18 in; the hole is 6 in; the bag yields 0.375 ft³ (manufacturers'
+    // published yield, as repeated in trade guides).
+    const t = ok(take({ runs: [{ lengthFt: 64, heightIn: 42 }] }, 'wire_panel'));
+    expect(t.holes).toBe(9);
+    const g = t.postGroups[0];
+    expect(g.holeDiameterIn).toBe(6);
+    expect(g.embedmentIn).toBeGreaterThanOrEqual(17.5);
+    expect(g.embedmentIn).toBeLessThanOrEqual(20);
+    // The geometry, independently: (π·3² − 3.5²) in² × embedment × 9 holes ÷ 1728 ÷ 0.375.
+    const bagsByHand = ((Math.PI * 9 - 12.25) * g.embedmentIn * 9) / 1728 / 0.375;
+    const line = t.materials.find((m) => m.sku === 'CONC-50')!;
+    expect(line.takeoffQty).toBeCloseTo(bagsByHand, 3);
+    expect(line.takeoffQty).toBeGreaterThanOrEqual(3.5);
+    expect(line.takeoffQty).toBeLessThanOrEqual(5);
+    expect([4, 5]).toContain(t.concrete!.bags);
+  });
+
+  it('a 36–42 in fence on posts cut from 10 ft stock in halves buries about 18 in, gravel base 3–4 in', () => {
+    for (const heightIn of [36, 40, 42]) {
+      const t = ok(take({ runs: [{ lengthFt: 16, heightIn }] }, 'wire_panel'));
+      const g = t.postGroups[0];
+      expect(g.lengthIn).toBeCloseTo(59.94, 2);
+      expect(g.embedmentIn).toBeGreaterThanOrEqual(17.5);
+      expect(g.embedmentIn).toBeLessThanOrEqual(24);
+      expect(g.holeDepthIn - g.embedmentIn).toBe(4);
+      // Two posts from each 10 ft board.
+      const cut = t.cutList.find((c) => c.group === 'posts' && c.stockFt === 10)!;
+      expect(cut.pieces).toHaveLength(2);
+    }
+  });
+
+  it('buries posts a third to a half of their length, and warns below a third', () => {
+    const t = ok(take({ runs: [{ lengthFt: 40, heightIn: 72 }] }));
+    const g = t.postGroups[0];
+    expect(g.embedmentIn / g.lengthIn).toBeGreaterThanOrEqual(1 / 3 - 1e-9);
+    expect(g.embedmentIn / g.lengthIn).toBeLessThanOrEqual(1 / 2);
+    expect(t.warnings.join(' ')).not.toMatch(/third/);
+    const shallow = { ...recipeFor('wood_privacy'), embedment: { rule: 'fixed_depth' as const, depthIn: 24 } };
+    const w = ok(take({ runs: [{ lengthFt: 40, heightIn: 72 }] }, 'wood_privacy', shallow));
+    expect(w.warnings.join(' ')).toMatch(/under a third/);
+  });
+
+  it('digs about three times the post width: a 4×4 takes a 10–12 in hole; light fences use 6 in augered holes', () => {
+    const t = ok(take({ runs: [{ lengthFt: 16, heightIn: 72 }] }));
+    expect(t.postGroups[0].holeDiameterIn).toBeGreaterThanOrEqual(10);
+    expect(t.postGroups[0].holeDiameterIn).toBeLessThanOrEqual(12);
+    expect(ok(take({ runs: [{ lengthFt: 16, heightIn: 42 }] }, 'wire_panel')).postGroups[0].holeDiameterIn).toBe(6);
+  });
+
+  it('chain link: line posts at most 10 ft on centre, 24 in deep at 4 ft, holes 4 × the post OD (ASTM F567 §4, §5.1)', () => {
+    const t = ok(take({ runs: [{ lengthFt: 95, heightIn: 48 }] }, 'chain_link'));
+    expect(t.runs[0].segments[0].bayFt).toBeLessThanOrEqual(10);
+    expect(t.postGroups.every((g) => g.embedmentIn >= 24)).toBe(true);
+    const line = t.postGroups.find((g) => g.kind === 'line')!;
+    expect(line.holeDiameterIn).toBeGreaterThanOrEqual(4 * 1.66);
+  });
+
+  it('rails per bay: 2 up to about 4 ft, 3 for 5–6 ft, 4 for 8 ft', () => {
+    const rails = (h: number) => buy(ok(take({ runs: [{ lengthFt: 8, heightIn: h }] })), 'rails') ;
+    const pieces = (h: number) => ok(take({ runs: [{ lengthFt: 8, heightIn: h }] })).cutList.filter((c) => c.group === 'rails').reduce((a, c) => a + c.count * c.pieces.length, 0);
+    expect([pieces(48), pieces(72), pieces(96)]).toEqual([2, 3, 4]);
+    expect(rails(72)).toBeGreaterThanOrEqual(3);
+  });
+
+  it('pickets n = ceil((L + g) ÷ (w + g)) (by arithmetic)', () => {
+    const r = { ...recipeFor('wood_privacy'), infill: { kind: 'pickets' as const, label: 'Picket', sku: 'P', widthIn: 3.5, gapIn: 1.5, lengthFt: 6 } };
+    const t = ok(take({ runs: [{ lengthFt: 8, heightIn: 48 }] }, 'wood_privacy', r));
+    expect(t.materials.find((m) => m.sku === 'P')!.takeoffQty).toBe(Math.ceil((96 + 1.5) / 5));
+  });
+});
+
+describe('geometry', () => {
+  it('two connected runs share their corner post, a gate adds its posts', () => {
+    const t = ok(take({ runs: [{ lengthFt: 40, heightIn: 72 }, { lengthFt: 30, heightIn: 72, connectsToPrevious: true }], gates: [{ runIndex: 1, widthFt: 4 }] }));
+    // Run 1: 5 bays, 6 posts. Run 2 (corner shared): 13 + gate 4 + 13 ft → 2 + 2 bays, posts 2 gate + 1 line + 1 line + end.
+    expect(t.posts).toEqual({ end: 2, corner: 1, line: 6, gate: 2, total: 11 });
+    expect(t.fenceFt).toBe(66);
+    expect(t.gates).toEqual({ single: 1, double: 0, leaves: 1 });
+  });
+
+  it('an enclosure of four runs has as many posts as bays (no ends)', () => {
+    const t = ok(take({ runs: [0, 90, 180, 270].map((h, i) => ({ lengthFt: 32, heightIn: 48, headingDeg: h, connectsToPrevious: i > 0 })), closed: true }, 'wire_panel'));
+    expect(t.posts.end).toBe(0);
+    expect(t.posts.corner).toBe(4);
+    expect(t.posts.total).toBe(t.bays);
+  });
+
+  it('posts = bays + 1 for every free-standing run; quantities are never negative or NaN', () => {
+    const kinds = Object.keys(DEFAULT_RECIPES);
+    fc.assert(
+      fc.property(
+        fc.constantFrom(...kinds),
+        fc.array(fc.double({ min: 1, max: 400, noNaN: true }), { minLength: 1, maxLength: 5 }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (kind, lengths, hFrac) => {
+          const r = recipeFor(kind);
+          const heightIn = Math.round(r.heightMinIn + hFrac * (r.heightMaxIn - r.heightMinIn));
+          const t = take({ runs: lengths.map((lengthFt) => ({ lengthFt, heightIn })) }, kind);
+          if (!t.ok) throw new Error(JSON.stringify(t.fields));
+          for (const run of t.runs) expect(run.posts).toBe(run.bays + 1);
+          expect(t.posts.total).toBe(t.bays + lengths.length);
+          const numbers = [t.fenceFt, t.holes, ...t.materials.flatMap((m) => [m.takeoffQty, m.buyQty, m.boardFeet ?? 0]), ...t.labour.flatMap((l) => [l.crewHours, l.manHours]), ...t.rentals.map((x) => x.days), ...t.quantities.map((q) => q.value)];
+          for (const n of numbers) { expect(Number.isFinite(n)).toBe(true); expect(n).toBeGreaterThanOrEqual(0); }
+          for (const m of t.materials.filter((x) => !['posts', 'rails', 'cap'].includes(x.group))) expect(m.buyQty).toBeGreaterThanOrEqual(Math.ceil(m.takeoffQty - 1e-7));
+        },
+      ),
+      { numRuns: 150 },
+    );
+  });
+
+  it('buys at least the cut list of each group, after waste', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 3, max: 200 }), { minLength: 1, maxLength: 4 }), (lengths) => {
+        const t = ok(take({ runs: lengths.map((lengthFt, i) => ({ lengthFt, heightIn: 72, connectsToPrevious: i > 0 })) }));
+        for (const group of ['posts', 'rails'] as const) {
+          const boardsNeeded = t.cutList.filter((c) => c.group === group).reduce((a, c) => a + c.count, 0);
+          expect(buy(t, group)).toBeGreaterThanOrEqual(boardsNeeded);
+        }
+      }),
+      { numRuns: 80 },
+    );
+  });
+
+  it('rounds concrete up once over the job, not hole by hole', () => {
+    const t = ok(take({ runs: [{ lengthFt: 152, heightIn: 72 }] }));
+    const exact = t.concrete!.cuFt / t.concrete!.bagYieldCuFt;
+    expect(t.concrete!.bags).toBe(Math.ceil(exact * 1.1 - 1e-7));
+    expect(t.concrete!.bags).toBeLessThan(t.holes * Math.ceil((exact / t.holes) * 1.1));
+  });
+
+  it('rents the auger by the half day, then by the day, for the hours of digging', () => {
+    const small = ok(take({ runs: [{ lengthFt: 40, heightIn: 72 }] }));
+    expect(small.rentals[0]).toMatchObject({ halfDays: 1, fullDays: 0, days: 0.5 });
+    const big = ok(take({ runs: [{ lengthFt: 600, heightIn: 72 }] }));
+    expect(big.rentals[0].days).toBeGreaterThanOrEqual(1);
+    expect(big.rentals[0].coversHours).toBeCloseTo(big.holes * ratesFor('wood_privacy').hole_hours, 6);
+  });
+
+  it('labour hours follow the rates × crew size', () => {
+    const t = ok(take({ runs: [{ lengthFt: 40, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4, kind: 'single' }] }));
+    const r = ratesFor('wood_privacy');
+    const posts = t.labour.find((l) => l.task === 'posts')!;
+    expect(posts.crewHours).toBeCloseTo(t.holes * (r.hole_hours + r.post_set_hours), 6);
+    expect(posts.manHours).toBeCloseTo(posts.crewHours * r.crew_size, 6);
+    expect(t.labour.find((l) => l.task === 'gates')!.crewHours).toBe(r.gate_hours);
+  });
+
+  it('the frost depth deepens the embedment when the company sets one', () => {
+    const site: SiteRules = { frostDepthIn: 42, permitMaxHeightIn: { front: 48, side: 72, back: 72 } };
+    const t = ok(take({ runs: [{ lengthFt: 16, heightIn: 72, yard: 'front' }] }, 'wood_privacy', undefined, site));
+    expect(t.postGroups[0].embedmentIn).toBe(42);
+    expect(t.warnings.join(' ')).toMatch(/permit/);
+  });
+});
+
+describe('bad input', () => {
+  it('refuses zero and negative lengths at the schema', () => {
+    for (const lengthFt of [0, -5, Number.NaN]) expect(layoutInput.safeParse({ runs: [{ lengthFt, heightIn: 72 }] }).success).toBe(false);
+  });
+
+  it('gives field errors for a gate wider than its run, past its end, or overlapping another', () => {
+    const wide = take({ runs: [{ lengthFt: 3, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4 }] });
+    expect(wide.ok).toBe(false);
+    if (!wide.ok) expect(wide.fields['gates.0.widthFt']).toMatch(/wider than its run/);
+    const past = take({ runs: [{ lengthFt: 10, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4, offsetFt: 8 }] });
+    if (!past.ok) expect(past.fields['gates.0.offsetFt']).toBeTruthy(); else throw new Error('accepted');
+    const overlap = take({ runs: [{ lengthFt: 30, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4, offsetFt: 2 }, { runIndex: 0, widthFt: 4, offsetFt: 4 }] });
+    if (!overlap.ok) expect(overlap.fields['gates.1.offsetFt']).toMatch(/overlaps/); else throw new Error('accepted');
+    const noRun = take({ runs: [{ lengthFt: 30, heightIn: 72 }], gates: [{ runIndex: 3, widthFt: 4 }] });
+    if (!noRun.ok) expect(noRun.fields['gates.0.runIndex']).toBeTruthy(); else throw new Error('accepted');
+  });
+
+  it('gives a field error for a height the style cannot build', () => {
+    const t = take({ runs: [{ lengthFt: 30, heightIn: 120 }] });
+    if (!t.ok) expect(t.fields['runs.0.heightIn']).toMatch(/48–96 in/); else throw new Error('accepted');
+    const r = { ...recipeFor('wood_privacy'), heightMaxIn: 144 };
+    const tooLong = take({ runs: [{ lengthFt: 30, heightIn: 120 }] }, 'wood_privacy', r);
+    if (!tooLong.ok) expect(tooLong.fields['runs.0.heightIn']).toMatch(/longest stock is 12 ft/); else throw new Error('accepted');
+  });
+
+  it('every default recipe passes its own schema', () => {
+    for (const [kind, r] of Object.entries(DEFAULT_RECIPES)) expect(recipeSchema.safeParse(r).success, kind).toBe(true);
+  });
+});
+
+describe('actual dimensions where volumes need them', () => {
+  it('subtracts a nominal 4×6 post as 3½ × 5½ in (PS 20 dressed sizes) from the concrete', () => {
+    const base = recipeFor('wood_privacy');
+    const r = { ...base, posts: { ...base.posts, line: { ...base.posts.line, label: '4×6 post', widthIn: 5.5, nominal: { thicknessIn: 4, widthIn: 6 } } } };
+    const t = ok(take({ runs: [{ lengthFt: 16, heightIn: 72 }] }, 'wood_privacy', r));
+    const line = t.postGroups.find((g) => g.kind === 'line')!;
+    const d = line.holeDiameterIn;
+    expect(d).toBe(18); // 3 × 5½ = 16½ → the next even auger size
+    expect(line.concreteCuInEach).toBeCloseTo((Math.PI * (d / 2) ** 2 - 3.5 * 5.5) * line.embedmentIn, 3);
+  });
+});
