@@ -115,7 +115,7 @@ async function main(): Promise<void> {
     STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
     STRIPE_API_BASE: `http://127.0.0.1:${stripePort}`,
     // The suite signs in often from one browser; the rate-limit test uses its own address.
-    ...(testMode ? { SIGN_IN_RATE_MAX: process.env.SIGN_IN_RATE_MAX ?? '20' } : {}),
+    ...(testMode ? { SIGN_IN_RATE_MAX: process.env.SIGN_IN_RATE_MAX ?? '60' } : {}),
   };
 
   const mailDir = path.join(dataRoot, 'mail');

@@ -45,3 +45,43 @@ export async function readyToBuild(client: Client, jobId: number) {
   if (r.status !== 200) throw new Error(`checklist failed: ${r.status} ${r.text.slice(0, 200)}`);
   return r.body;
 }
+
+/** Ids for the permission matrix: a job assigned to the crew lead, with a price book and a bid. */
+export const BIDS_FIXTURES: Record<string, { params: (co: import('./factory').TestCompany) => Promise<Record<string, string>> }> = (() => {
+  const priced = new WeakSet<object>();
+  const ensurePriceBook = async (co: import('./factory').TestCompany) => {
+    if (priced.has(co)) return;
+    await importPriceBook(co.owner);
+    priced.add(co);
+  };
+  const job = async (co: import('./factory').TestCompany) => {
+    const { makeCustomer, makeJob } = await import('./factory');
+    const c = await makeCustomer(co.owner);
+    return (await makeJob(co.owner, c.id, { crewLeadUserId: co.userIds.crew_lead })).id;
+  };
+  const bid = async (co: import('./factory').TestCompany) => {
+    await ensurePriceBook(co);
+    const id = await job(co);
+    const b = await co.owner.post(`/api/jobs/${id}/bids`, twoRunsAndAGate(await styleId(co.owner)));
+    if (b.status !== 201) throw new Error(`bid fixture: ${b.status} ${b.text.slice(0, 200)}`);
+    return { id: String(id), bidId: String(b.body.id) };
+  };
+  const jobOnly = { params: async (co: import('./factory').TestCompany) => ({ id: String(await job(co)) }) };
+  const style = { params: async (co: import('./factory').TestCompany) => ({ id: String(await styleId(co.owner)), styleId: String(await styleId(co.owner)) }) };
+  return {
+    '/api/jobs/[id]/bids': jobOnly,
+    '/api/jobs/[id]/checklist': jobOnly,
+    '/api/jobs/[id]/checklist-override': jobOnly,
+    '/api/jobs/[id]/bids/[bidId]': { params: bid },
+    '/api/jobs/[id]/bids/[bidId]/accept': { params: bid },
+    '/api/pricebook/[id]': {
+      params: async (co) => {
+        await ensurePriceBook(co);
+        const list = await co.owner.get('/api/pricebook?pageSize=1');
+        return { id: String(list.body.items[0].id) };
+      },
+    },
+    '/api/styles/[id]': style,
+    '/api/rates/[styleId]': style,
+  };
+})();

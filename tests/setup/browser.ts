@@ -41,17 +41,38 @@ export function watchConsole(page: Page): string[] {
   return problems;
 }
 
-/** Waits until every island on the page has hydrated (Astro drops the ssr attribute). */
+/**
+ * Waits until the page's islands have hydrated (Astro drops the ssr attribute). Islands
+ * that hydrate only when scrolled into view or on a media query are left out.
+ */
 export async function hydrated(page: Page): Promise<void> {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0, undefined, { timeout: 15_000 });
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]:not([client="visible"]):not([client="media"]):not([client="only"])').length === 0, undefined, { timeout: 15_000 });
 }
 
+/** Session cookies of people already signed in through the form in this test file. */
+const sessions = new Map<string, Awaited<ReturnType<BrowserContext['storageState']>>['cookies']>();
+
+/**
+ * Signs in through the form the first time for each person in a test file, then reuses
+ * that session (as a browser that stays signed in would), so the suite stays well under
+ * the sign-in rate limit.
+ */
 export async function signIn(context: BrowserContext, baseUrl: string, email: string, password: string): Promise<Page> {
+  const known = sessions.get(`${baseUrl} ${email}`);
+  if (known) {
+    await context.addCookies(known);
+    const page = await context.newPage();
+    await page.goto(`${baseUrl}/`);
+    if (new URL(page.url()).pathname === '/') return page;
+    sessions.delete(`${baseUrl} ${email}`);
+    await page.close();
+  }
   const page = await context.newPage();
   await page.goto(`${baseUrl}/sign-in`);
   await hydrated(page);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await Promise.all([page.waitForURL(`${baseUrl}/`), page.getByRole('button', { name: 'Sign in' }).click()]);
+  sessions.set(`${baseUrl} ${email}`, (await context.storageState()).cookies);
   return page;
 }

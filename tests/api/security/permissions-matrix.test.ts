@@ -4,6 +4,7 @@ import { Client } from '../../setup/client';
 import { makeCompany, makeCustomer, makeJob, uniqueEmail, type TestCompany } from '../../setup/factory';
 import { apiRoutes, type ApiRoute, type Method } from '../../setup/routes';
 import { BILLING_FIXTURES } from '../../setup/invoices';
+import { BIDS_FIXTURES } from '../../setup/bids';
 
 /**
  * Every API route × every role, plus signed out and a member of another company, against
@@ -19,6 +20,7 @@ interface Fixture {
 
 const FIXTURES: Record<string, Fixture> = {
   ...BILLING_FIXTURES,
+  ...BIDS_FIXTURES,
   '/api/jobs/[id]': { params: async (co) => ({ id: String(await assignedJob(co)) }) },
   '/api/customers/[id]': { params: async (co) => ({ id: String((await makeCustomer(co.owner)).id) }) },
   '/api/members/[id]': {
