@@ -21,6 +21,16 @@ const PAGES: { path: string; as: string }[] = [
   { path: '/settings', as: 'owner@example.com' },
   { path: '/settings/members', as: 'owner@example.com' },
   { path: '/settings/permissions', as: 'crew@example.com' },
+  { path: '/jobs/1/bids/new', as: 'estimator@example.com' },
+  { path: '/pricebook', as: 'estimator@example.com' },
+  { path: '/styles', as: 'estimator@example.com' },
+  { path: '/styles/1', as: 'estimator@example.com' },
+  { path: '/rates', as: 'estimator@example.com' },
+  { path: '/invoices', as: 'owner@example.com' },
+  { path: '/invoices/1', as: 'owner@example.com' },
+  { path: '/invoices/new', as: 'bookkeeper@example.com' },
+  { path: '/receivables', as: 'bookkeeper@example.com' },
+  { path: '/settings/reminders', as: 'owner@example.com' },
 ];
 const PUBLIC = ['/sign-in', '/sign-up', '/forgot-password'];
 
