@@ -24,8 +24,9 @@ describe('margin and markup (by arithmetic from the definitions g = (P − C)/P,
       const p = c + extra;
       const g = marginPct(p, c)!;
       const m = markupPct(p, c)!;
-      expect(marginFromMarkup(m) / g).toBeCloseTo(1, 9);
-      expect(markupFromMargin(g) / m).toBeCloseTo(1, 9);
+      // Relative error: near a 100 % margin, 1 − g cancels and floating point loses digits.
+      expect(marginFromMarkup(m) / g).toBeCloseTo(1, 6);
+      expect(markupFromMargin(g) / m).toBeCloseTo(1, 6);
     }));
   });
 
