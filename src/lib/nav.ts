@@ -13,8 +13,12 @@ export const NAV: NavItem[] = [
   { href: '/', label: 'Dashboard', action: 'dashboard:read', group: 'work' },
   { href: '/jobs', label: 'Jobs', action: 'jobs:read', group: 'work' },
   { href: '/customers', label: 'Customers', action: 'customers:read', group: 'work' },
+  { href: '/time', label: 'Crew time', action: 'time:log', group: 'work' },
+  { href: '/receipts', label: 'Receipts', action: 'receipts:read', group: 'money' },
+  { href: '/costs', label: 'Costs', action: 'costs:read', group: 'money' },
   { href: '/settings', label: 'Company settings', action: 'settings:write', group: 'company' },
   { href: '/settings/members', label: 'Members', action: 'members:read', group: 'company' },
+  { href: '/workers', label: 'Workers', action: 'workers:read', group: 'company' },
   { href: '/settings/permissions', label: 'Permissions', action: 'settings:read', group: 'company' },
 ];
 
