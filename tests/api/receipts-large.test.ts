@@ -1,8 +1,7 @@
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCompany, makeCustomer, makeJob, type TestCompany } from '../setup/factory';
 import { testDb, closeTestDb } from '../setup/db';
 import { ok, upload } from './receipts-helpers';
-import { afterAll } from 'vitest';
 
 let co: TestCompany;
 let job: { id: number; code: string };
@@ -39,6 +38,9 @@ describe('a large file', () => {
     const [[row]] = await testDb().raw('SELECT COUNT(*) AS n, SUM(amount_cents) AS s FROM cost_lines WHERE organization_id = ?', [co.id]);
     expect(Number(row.n)).toBe(100_000);
     expect(Number(row.s)).toBe(cents);
+    const [[onJob]] = await testDb().raw('SELECT SUM(amount_cents) AS s FROM cost_lines WHERE organization_id = ? AND job_id = ?', [co.id, job.id]);
+    const costing = await ok(co.owner.get(`/api/jobs/${job.id}/costing`), 'costing');
+    expect(costing.categories.find((c: { category: string }) => c.category === 'material').actualCents).toBe(Number(onJob.s));
     const file = await co.bookkeeper.get(`/api/receipts/imports/${r.body.id}/file`);
     expect(file.text.length).toBe(text.length);
   }, 600_000);

@@ -40,7 +40,8 @@ export type RowOutcome<T> =
   | { kind: 'skipped'; reason: string }
   | { kind: 'error'; reason: string };
 
-const TOTAL_ROW = /^\s*(?:grand\s*|sub\s*-?\s*)?totals?\b|^\s*(?:amount|balance)\s+due\b|^\s*(?:invoice|receipt|statement)\s+total\b/i;
+/** A cell that is only a total's label: "Total", "Subtotal", "Statement total:", "Balance due". */
+const TOTAL_ROW = /^\s*(?:(?:grand|sub|statement|invoice|receipt|page|report)\s*-?\s*)?totals?(?:\s+(?:due|amount|for\b.*))?\s*:?\s*$|^\s*(?:amount|balance)\s+due\s*:?\s*$/i;
 const TEXT_LIMITS: Partial<Record<MappedField, number>> = {
   supplier: 160, receiptNumber: 60, lineNumber: 20, sku: 80, description: 500, unit: 20, jobRef: 100, memo: 500, worker: 160, notes: 500, task: 60,
 };
@@ -76,7 +77,7 @@ function classify(cells: string[], ctx: RowContext, itemFields: MappedField[]): 
 
 /** One CSV row of a receipt file → a line, a skipped row, or an error with a plain reason. */
 export function normaliseReceiptRow(cells: string[], ctx: RowContext): RowOutcome<ReceiptLineValues> {
-  const skip = classify(cells, ctx, ['sku', 'quantity', 'date']);
+  const skip = classify(cells, ctx, ['sku', 'quantity']);
   if (skip) return skip;
   const { mapping: m } = ctx;
   const problems: string[] = [];
@@ -135,7 +136,7 @@ export const MAX_ENTRY_HOURS = 24;
 
 /** One CSV row of a timesheet → a line or an error. */
 export function normaliseTimesheetRow(cells: string[], ctx: RowContext): RowOutcome<TimesheetLineValues> {
-  const skip = classify(cells, ctx, ['worker', 'hours', 'date']);
+  const skip = classify(cells, ctx, ['worker', 'hours']);
   if (skip) return skip;
   const { mapping: m } = ctx;
   const problems: string[] = [];

@@ -88,3 +88,10 @@ export interface TimeEntry {
   wageCents?: number;
   costCents?: number;
 }
+
+/** What the phone form needs: the jobs this person may log on and who can be on the crew. */
+export interface TimeOptions {
+  jobs: { id: number; code: string; title: string; status: string }[];
+  workers: WorkerOption[];
+  tasks: { value: string; label: string }[];
+}

@@ -119,3 +119,9 @@ export async function deleteManualCost(actor: Actor, id: number): Promise<void> 
     await audit(trx, actor, 'cost_line', id, 'delete', c);
   });
 }
+
+/** Jobs a cost can go on, newest first: everything but lost bids. */
+export async function jobOptions(actor: Actor): Promise<{ id: number; code: string; title: string }[]> {
+  const rows = await db()('jobs').where('organization_id', actor.companyId).whereNot('status', 'lost').orderBy('code', 'desc').limit(1000).select('id', 'code', 'title');
+  return rows.map((r) => ({ id: Number(r.id), code: r.code, title: r.title }));
+}

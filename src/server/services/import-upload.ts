@@ -97,7 +97,9 @@ export async function receiveUpload(actor: Actor, request: Request, kind: Import
     source.on('error', (err) => reject(err));
     source.pipe(bb);
   });
-  if (fileTask && !failure) await fileTask;
+  // Assigned inside the busboy callbacks, which the compiler cannot follow.
+  const task = fileTask as Promise<void> | null;
+  if (task && !failure) await task;
   const id = importId as number | null;
   if (failure || id === null) {
     if (id !== null) await imports.deleteImport(actor.companyId, id, db()).catch(() => {});

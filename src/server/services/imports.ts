@@ -147,8 +147,8 @@ export async function listImports(actor: Actor, kind: ImportKind): Promise<Impor
     .whereIn('import_id', rows.map((r) => r.id))
     .groupBy('import_id')
     .select('import_id')
-    .select(db().raw(`SUM(state IN ('ok','committed')) AS lines, SUM(state = 'error') AS errors, SUM(state = 'duplicate') AS dups,
-      SUM(state = 'committed' AND allocation = 'unmatched') AS unmatched, COALESCE(SUM(CASE WHEN state IN ('ok','committed') THEN total_cents END), 0) AS cents`));
+    .select(db().raw(`SUM(state IN ('ok','committed')) AS n_lines, SUM(state = 'error') AS n_errors, SUM(state = 'duplicate') AS n_dups,
+      SUM(state = 'committed' AND allocation = 'unmatched') AS n_unmatched, COALESCE(SUM(CASE WHEN state IN ('ok','committed') THEN total_cents END), 0) AS cents`));
   const by = new Map(agg.map((a) => [Number(a.import_id), a]));
   return rows.map((r) => {
     const a = by.get(r.id);
@@ -162,10 +162,10 @@ export async function listImports(actor: Actor, kind: ImportKind): Promise<Impor
       uploadedByName: r.uploadedByName,
       uploadedAt: r.uploadedAt,
       committedAt: r.committedAt,
-      lines: Number(a?.lines ?? 0),
-      errors: Number(a?.errors ?? 0),
-      duplicates: Number(a?.dups ?? 0),
-      unmatched: Number(a?.unmatched ?? 0),
+      lines: Number(a?.n_lines ?? 0),
+      errors: Number(a?.n_errors ?? 0),
+      duplicates: Number(a?.n_dups ?? 0),
+      unmatched: Number(a?.n_unmatched ?? 0),
       amountCents: toInt(a?.cents ?? 0),
     };
   });
@@ -298,4 +298,11 @@ export async function downloadImport(actor: Actor, id: number, kind?: ImportKind
       'cache-control': 'no-store',
     },
   });
+}
+
+/** Saved mappings with their supplier's name, for the upload screen to choose from. */
+export async function savedMappings(actor: Actor, kind: ImportKind) {
+  const rows = await imports.listMappings(actor.companyId, kind);
+  const names = new Map((await db()('suppliers').where('organization_id', actor.companyId).select('id', 'name')).map((s) => [Number(s.id), s.name as string]));
+  return rows.map((r) => ({ supplierId: r.supplierId, supplierName: r.supplierId ? names.get(r.supplierId) ?? null : null, mapping: r.mapping, headerSignature: r.headerSignature }));
 }

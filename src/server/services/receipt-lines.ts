@@ -109,28 +109,28 @@ async function replaceParts(trx: Knex.Transaction, actor: Actor, line: Record<st
   await audit(trx, actor, 'import_line', Number(line.id), 'allocate', { allocation, parts: parts.map((p) => ({ jobId: p.jobId, category: p.category, amountCents: p.amountCents })) });
 }
 
-async function lineWithParts(actor: Actor, lineId: number): Promise<ImportLine> {
-  const r = await linesQuery(db(), actor.companyId).andWhere('l.id', lineId).first();
+async function lineWithParts(actor: Actor, lineId: number, k: Knex): Promise<ImportLine> {
+  const r = await linesQuery(k, actor.companyId).andWhere('l.id', lineId).first();
   const line = lineFromRow(r);
-  line.parts = (await partsOf(actor.companyId, [lineId])).get(lineId) ?? [];
+  line.parts = (await partsOf(actor.companyId, [lineId], k)).get(lineId) ?? [];
   return line;
 }
 
 /** One line whole to a job and category, to overhead, or back to unmatched. */
-export async function allocateLine(actor: Actor, lineId: number, input: AllocationInput): Promise<ImportLine> {
-  await db().transaction(async (trx) => {
+export async function allocateLine(actor: Actor, lineId: number, input: AllocationInput, k: Knex = db()): Promise<ImportLine> {
+  await k.transaction(async (trx) => {
     const line = await lockLine(trx, actor, lineId);
     const amount = toInt(line.total_cents);
     if (input.mode === 'job') await replaceParts(trx, actor, line, [{ jobId: input.jobId, category: input.category, amountCents: amount, splitPct: null }], 'job');
     else if (input.mode === 'overhead') await replaceParts(trx, actor, line, [{ jobId: null, category: input.category, amountCents: amount, splitPct: null }], 'overhead');
     else await replaceParts(trx, actor, line, [{ jobId: null, category: line.category, amountCents: amount, splitPct: null }], 'unmatched');
   });
-  return lineWithParts(actor, lineId);
+  return lineWithParts(actor, lineId, k);
 }
 
 /** One line across jobs (or overhead) by amount or percentage; the parts sum to the line exactly. */
-export async function splitLine(actor: Actor, lineId: number, input: SplitInput): Promise<ImportLine> {
-  await db().transaction(async (trx) => {
+export async function splitLine(actor: Actor, lineId: number, input: SplitInput, k: Knex = db()): Promise<ImportLine> {
+  await k.transaction(async (trx) => {
     const line = await lockLine(trx, actor, lineId);
     const total = toInt(line.total_cents);
     const r = input.by === 'percent' ? splitByPercent(total, input.parts.map((p) => p.percent!)) : splitByAmount(total, input.parts.map((p) => p.amountCents!));
@@ -138,5 +138,5 @@ export async function splitLine(actor: Actor, lineId: number, input: SplitInput)
     const parts = input.parts.map((p, i) => ({ jobId: p.jobId, category: p.category, amountCents: r.parts[i], splitPct: input.by === 'percent' ? p.percent! : null }));
     await replaceParts(trx, actor, line, parts, 'split');
   });
-  return lineWithParts(actor, lineId);
+  return lineWithParts(actor, lineId, k);
 }

@@ -4,7 +4,7 @@ import { AppError, notFound } from '../../lib/errors.ts';
 import { can } from '../../lib/auth/permissions.ts';
 import { labourCostCents } from '../../lib/labour/cost.ts';
 import { TIME_TASKS, TIME_TASK_LABELS } from '../../lib/labour/tasks.ts';
-import type { TimeEntry, TimeEntryInput, TimeEntryPatch, TimeListQuery, WorkerOption } from '../../lib/labour/schema.ts';
+import type { TimeEntry, TimeEntryInput, TimeEntryPatch, TimeListQuery, TimeOptions } from '../../lib/labour/schema.ts';
 import type { JobStatus } from '../../lib/jobs/schema.ts';
 import * as time from '../repos/time-entries.ts';
 import { findJob } from '../repos/jobs.ts';
@@ -110,12 +110,6 @@ export async function deleteTime(actor: Actor, id: number): Promise<void> {
   });
 }
 
-export interface TimeOptions {
-  jobs: { id: number; code: string; title: string; status: JobStatus }[];
-  workers: WorkerOption[];
-  tasks: { value: string; label: string }[];
-}
-
 /** What the phone form needs: the jobs this person may log on and who can be on the crew. */
 export async function timeOptions(actor: Actor): Promise<TimeOptions> {
   const q = db()('jobs').where('organization_id', actor.companyId).whereIn('status', WORKING_STATUSES);
@@ -127,4 +121,10 @@ export async function timeOptions(actor: Actor): Promise<TimeOptions> {
     workers: await workerOptions(actor.companyId, actor.role === 'crew_lead' ? actor.userId : null),
     tasks: TIME_TASKS.map((t) => ({ value: t, label: TIME_TASK_LABELS[t] })),
   };
+}
+
+/** Hours by task on a job this actor may see (a crew lead's own jobs only). */
+export async function jobHours(actor: Actor, jobId: number) {
+  if (!(await findJob(actor.companyId, jobId, scopeFor(actor)))) throw notFound('That job');
+  return time.hoursByTask(actor.companyId, jobId);
 }

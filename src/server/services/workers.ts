@@ -54,3 +54,9 @@ export async function updateWorker(actor: Actor, id: number, input: Partial<Work
   }
   return getWorker(actor, id);
 }
+
+/** Members who lead crews (and the owner, who may), for a worker's crew. */
+export async function crewLeadOptions(actor: Actor): Promise<{ id: string; name: string }[]> {
+  const rows = await db()('member as m').join('user as u', 'u.id', 'm.userId').where('m.organizationId', actor.companyId).whereIn('m.role', ['crew_lead', 'owner']).orderBy('u.name').select('u.id', 'u.name');
+  return rows.map((r) => ({ id: r.id as string, name: r.name as string }));
+}
