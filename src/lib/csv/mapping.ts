@@ -41,7 +41,7 @@ const SYNONYMS: Record<MappedField, string[]> = {
   supplier: ['supplier', 'vendor', 'seller', 'store', 'supplier name', 'vendor name'],
   receiptNumber: ['receipt no', 'receipt', 'invoice no', 'invoice', 'inv no', 'inv', 'ticket no', 'ticket', 'doc no', 'document no', 'order no', 'txn no', 'transaction no'],
   lineNumber: ['line no', 'line', 'ln', 'seq', 'line item', 'item line'],
-  sku: ['sku', 'item no', 'item code', 'item', 'product code', 'part no', 'part', 'article no', 'upc', 'catalog no'],
+  sku: ['sku', 'item no', 'item code', 'item', 'product code', 'part no', 'part', 'article no', 'upc', 'catalog no', 'product'],
   description: ['description', 'desc', 'item description', 'product description', 'product', 'details', 'name'],
   quantity: ['qty', 'quantity', 'qty shipped', 'qty sold', 'units', 'count'],
   unit: ['unit', 'uom', 'um', 'unit of measure', 'u m'],

@@ -94,6 +94,8 @@ export default function ImportUploader({ kind, endpoint, pageBase, suppliers, sa
     let headers: string[] | null = null;
     const sample: string[][] = [];
     let rows = 0;
+    /** the file's final line break leaves one empty row behind, which is not a row */
+    let trailingEmpty = false;
     let delimiter = ',';
     Papa.parse<string[]>(file, {
       skipEmptyLines: false,
@@ -103,11 +105,13 @@ export default function ImportUploader({ kind, endpoint, pageBase, suppliers, sa
         for (const row of res.data) {
           if (!headers) { if (row.some((c) => c.trim())) headers = row.map((c, i) => (i === 0 ? c.replace(/^\uFEFF/, '') : c).trim()); continue; }
           rows++;
+          trailingEmpty = row.length === 1 && row[0] === '';
           if (sample.length < SAMPLE) sample.push(row);
         }
         patch(key, { progress: (res.meta.cursor / Math.max(1, file.size)) * 100, rows });
       },
       complete: () => {
+        if (trailingEmpty) rows--;
         const h = headers ?? [];
         const chosen = pick(null, h, sample, '');
         patch(key, { step: 'mapping', progress: 100, rows, headers: h, sample, delimiter, mapping: chosen.mapping, mappingNote: chosen.note, supplier: chosen.supplier });

@@ -118,7 +118,7 @@ export default function TimeScreen({ options, initial, seesMoney, today, presetJ
               <span className="label">Notes (optional)</span>
               <input className="input" value={notes} placeholder="Hit rock at the corner post; hand-dug near the gas mark" onChange={(e) => setNotes(e.target.value)} />
             </label>
-            <button type="submit" className="btn-primary w-full py-3 text-base sm:w-auto" disabled={busy}>Save {crew.length ? `${crew.length} worker${crew.length === 1 ? '' : 's'}’ hours` : 'hours'}</button>
+            <button type="submit" className="btn-primary w-full py-3 text-base sm:w-auto" disabled={busy}>Save {crew.length ? `${crew.length} ${crew.length === 1 ? 'worker’s' : 'workers’'} hours` : 'hours'}</button>
           </>
         )}
       </form>
