@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCompany, makeCustomer, makeJob, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
 import { stack } from '../setup/stack';
-import { ok, upload } from './receipts-helpers';
+import { multipart, ok, upload } from './receipts-helpers';
 
 let co: TestCompany;
 let other: TestCompany;
@@ -301,6 +301,9 @@ describe('who may', () => {
       expect((await co.crew_lead.get(path)).status, path).toBe(403);
     }
     expect((await upload(co.crew_lead, '/api/receipts/imports', { name: 'x.csv', content: 'a\n1\n' })).status).toBe(403);
+    const m = multipart({}, { name: 'x.csv', content: 'Date,Amount\n2026-03-01,5.00\n' });
+    expect((await co.bookkeeper.request('POST', '/api/receipts/imports', { body: m.body, headers: { 'content-type': m.type }, origin: null })).status).toBe(403);
+    expect((await co.bookkeeper.request('POST', '/api/receipts/imports', { body: m.body, headers: { 'content-type': m.type }, origin: 'http://evil.example' })).status).toBe(403);
     expect((await upload(co.estimator, '/api/receipts/imports', { name: 'x.csv', content: 'a\n1\n' })).status).toBe(403);
     for (const path of [`/api/receipts/imports/${id}`, `/api/receipts/imports/${id}/lines`, `/api/receipts/imports/${id}/file`]) {
       expect((await other.bookkeeper.get(path)).status, path).toBe(404);

@@ -75,15 +75,21 @@ function classify(cells: string[], ctx: RowContext, itemFields: MappedField[]): 
   return null;
 }
 
+/** The row's date, or '' with the problem noted. */
+function dateOf(cells: string[], ctx: RowContext, problems: string[]): string {
+  const d = parseDate(cellOf(cells, ctx, 'date'), ctx.mapping.dateFormat);
+  if (!d.ok) problems.push(`date: ${d.reason}`);
+  else if (!d.value) problems.push('no date');
+  return d.ok && d.value ? d.value : '';
+}
+
 /** One CSV row of a receipt file → a line, a skipped row, or an error with a plain reason. */
 export function normaliseReceiptRow(cells: string[], ctx: RowContext): RowOutcome<ReceiptLineValues> {
   const skip = classify(cells, ctx, ['sku', 'quantity']);
   if (skip) return skip;
   const { mapping: m } = ctx;
   const problems: string[] = [];
-  const date = parseDate(cellOf(cells, ctx, 'date'), m.dateFormat);
-  if (!date.ok) problems.push(`date: ${date.reason}`);
-  else if (!date.value) problems.push('no date');
+  const date = dateOf(cells, ctx, problems);
 
   const money = (field: MappedField): Scaled | null => {
     const raw = cellOf(cells, ctx, field);
@@ -113,7 +119,7 @@ export function normaliseReceiptRow(cells: string[], ctx: RowContext): RowOutcom
   return {
     kind: 'line',
     values: {
-      date: date.ok ? date.value! : '',
+      date,
       supplierName: textOf(cells, ctx, 'supplier'),
       receiptNumber: textOf(cells, ctx, 'receiptNumber'),
       lineNumber: textOf(cells, ctx, 'lineNumber'),
@@ -140,9 +146,7 @@ export function normaliseTimesheetRow(cells: string[], ctx: RowContext): RowOutc
   if (skip) return skip;
   const { mapping: m } = ctx;
   const problems: string[] = [];
-  const date = parseDate(cellOf(cells, ctx, 'date'), m.dateFormat);
-  if (!date.ok) problems.push(`date: ${date.reason}`);
-  else if (!date.value) problems.push('no date');
+  const date = dateOf(cells, ctx, problems);
   const worker = textOf(cells, ctx, 'worker');
   if (!worker) problems.push('no worker');
   const jobRef = textOf(cells, ctx, 'jobRef');
@@ -159,5 +163,5 @@ export function normaliseTimesheetRow(cells: string[], ctx: RowContext): RowOutc
   const task = rawTask ? parseTask(rawTask) : 'travel_other';
   if (!task) problems.push(`task: "${rawTask}" is not one of ${TIME_TASKS.map((t) => TIME_TASK_LABELS[t]).join(', ')}`);
   if (problems.length) return { kind: 'error', reason: problems.join('; ') };
-  return { kind: 'line', values: { date: date.ok ? date.value! : '', workerName: worker!, jobRef: jobRef!, hours: hours!, task: task!, notes: textOf(cells, ctx, 'notes') } };
+  return { kind: 'line', values: { date, workerName: worker!, jobRef: jobRef!, hours: hours!, task: task!, notes: textOf(cells, ctx, 'notes') } };
 }

@@ -279,7 +279,7 @@ export async function seedDemoCosts(knex: Knex, today = new Date()): Promise<voi
       workerIds.set(m.name, { id: Number(id), wage: m.wage });
     }
   }
-  // Gone since spring: kept for the hours already logged under his name.
+  // Gone since spring: off the crews' time form, still on the list.
   await knex('workers').insert({ organization_id: DEMO.orgId, name: 'Dale Sorensen', wage_cents: 2050, active: false, notes: 'Left in April.' });
 
   const jobs = await demoJobs(knex, todayIso);
@@ -382,7 +382,8 @@ export async function seedDemoCosts(knex: Knex, today = new Date()): Promise<voi
     // The auger for the digging days, a skid steer on the big jobs, at the rate card.
     const rentalTarget = (job.estimates.rental ?? 0) * progress;
     if (rentalTarget > 0) {
-      const auger = RATE_CARD[0];
+      // Split rail posts are driven and tamped; everything else is augered.
+      const auger = job.kind === 'split_rail' ? RATE_CARD[2] : RATE_CARD[0];
       // The rental length whose price lands nearest the estimate: a half day up to a week and a day.
       const options = [4, 24, 28, 48, 52, 72, 96, 120, 168, 192].map((h) => {
         const startAt = `${job.start}T07:00`;
@@ -394,7 +395,7 @@ export async function seedDemoCosts(knex: Knex, today = new Date()): Promise<voi
       const cost = rentalCost({ startAt, endAt, rates: auger, deliveryCents: 0, fuelCents: r.chance(0.4) ? 1800 : 0 });
       if (cost.ok) {
         rentals.push({
-          organization_id: DEMO.orgId, job_id: job.id, kind: 'earth_auger', description: 'Two-man auger, 10 in bit', start_at: startAt.replace('T', ' '), end_at: endAt.replace('T', ' '),
+          organization_id: DEMO.orgId, job_id: job.id, kind: auger.kind, description: auger.kind === 'earth_auger' ? 'Two-man auger, 10 in bit' : 'Gas post driver', start_at: startAt.replace('T', ' '), end_at: endAt.replace('T', ' '),
           half_day_cents: auger.halfDayCents, day_cents: auger.dayCents, week_cents: auger.weekCents, delivery_cents: 0, fuel_cents: cost.totalCents - cost.plan.rentCents,
           weeks: cost.plan.weeks, days: cost.plan.days, half_days: cost.plan.halfDays, cost_cents: cost.totalCents, entered_by: job.crew === 'pike' ? crewLead.id : bookkeeper.id,
         });

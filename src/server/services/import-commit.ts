@@ -182,7 +182,7 @@ function sighting(r: Record<string, unknown>, importId: number): PriceSighting[]
 function message(kind: string, s: { added: number; duplicates: number; addedCents: number; errors: number; duplicateFile: { id: number; committedAt: string } | null }): string {
   if (s.duplicateFile) return `This file was already imported as import #${s.duplicateFile.id}; nothing was added.`;
   const what = kind === 'receipts' ? (s.added === 1 ? 'line' : 'lines') : s.added === 1 ? 'time entry' : 'time entries';
-  const parts = [`Added ${s.added} ${what} (${formatMoney(s.addedCents)})`];
+  const parts = [`Added ${s.added.toLocaleString('en-US')} ${what} (${formatMoney(s.addedCents)})`];
   if (s.duplicates) parts.push(`${s.duplicates} already imported and left out`);
   if (s.errors) parts.push(`${s.errors} row${s.errors === 1 ? '' : 's'} with errors left out`);
   if (!s.added && s.duplicates) return `Nothing was added: all ${s.duplicates} line${s.duplicates === 1 ? ' was' : 's were'} already imported.`;

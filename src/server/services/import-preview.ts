@@ -15,6 +15,8 @@ const SAMPLE_ROWS = 50;
 const BATCH = 500;
 
 export const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
+/** A short digest for in-memory maps over 100,000 rows (the content itself may be long). */
+const short = (text: string) => createHash('sha1').update(text).digest('base64');
 
 /** SKUs compare without case, spaces or dashes: "PT-4X4-10" is "pt4x410". */
 export const skuKey = (s: string) => s.toUpperCase().replace(/[\s-]+/g, '');
@@ -205,8 +207,9 @@ class LineWriter {
 
   private receipt(v: ReceiptLineValues, row: number): LineRow {
     const supplier = v.supplierName ?? this.supplierName;
-    const occurrence = this.occurrences.next(receiptLineKey(v, supplier, 0));
-    const material = receiptLineKey(v, supplier, occurrence);
+    const first = receiptLineKey(v, supplier, 0);
+    // Supplier + receipt + line keys need no occurrence; identical content lines do.
+    const material = first.startsWith('r|') ? first : receiptLineKey(v, supplier, this.occurrences.next(short(first)));
     const match = matchJob(
       [
         { field: 'jobRef', text: v.jobRef },
@@ -241,7 +244,7 @@ class LineWriter {
   }
 
   private timesheet(v: TimesheetLineValues, row: number): LineRow {
-    const occurrence = this.occurrences.next(timesheetLineKey(v, 0));
+    const occurrence = this.occurrences.next(short(timesheetLineKey(v, 0)));
     const keyed = this.keyed(timesheetLineKey(v, occurrence), row);
     const worker = this.look.workers.get(v.workerName.trim().toLowerCase());
     const match = matchJob([{ field: 'jobRef', text: v.jobRef }], this.look.jobs);

@@ -137,6 +137,8 @@ export interface ImportListItem {
   duplicates: number;
   unmatched: number;
   amountCents: number;
+  /** timesheets: hours on the good rows */
+  hours: number;
 }
 
 export async function listImports(actor: Actor, kind: ImportKind): Promise<ImportListItem[]> {
@@ -148,7 +150,8 @@ export async function listImports(actor: Actor, kind: ImportKind): Promise<Impor
     .groupBy('import_id')
     .select('import_id')
     .select(db().raw(`SUM(state IN ('ok','committed')) AS n_lines, SUM(state = 'error') AS n_errors, SUM(state = 'duplicate') AS n_dups,
-      SUM(state = 'committed' AND allocation = 'unmatched') AS n_unmatched, COALESCE(SUM(CASE WHEN state IN ('ok','committed') THEN total_cents END), 0) AS cents`));
+      SUM(state = 'committed' AND allocation = 'unmatched') AS n_unmatched, COALESCE(SUM(CASE WHEN state IN ('ok','committed') THEN total_cents END), 0) AS cents,
+      COALESCE(SUM(CASE WHEN state IN ('ok','committed') THEN hours END), 0) AS n_hours`));
   const by = new Map(agg.map((a) => [Number(a.import_id), a]));
   return rows.map((r) => {
     const a = by.get(r.id);
@@ -167,6 +170,7 @@ export async function listImports(actor: Actor, kind: ImportKind): Promise<Impor
       duplicates: Number(a?.n_dups ?? 0),
       unmatched: Number(a?.n_unmatched ?? 0),
       amountCents: toInt(a?.cents ?? 0),
+      hours: Number(a?.n_hours ?? 0),
     };
   });
 }
@@ -216,6 +220,24 @@ export function linesQuery(k: Knex, companyId: string) {
     .select('l.*', 'j.code as matched_job_code', 's.name as supplier_label');
 }
 
+/** How each committed receipt line is allocated now: its cost lines. */
+export async function partsOf(companyId: string, lineIds: number[], q: Knex = db()) {
+  if (!lineIds.length) return new Map<number, ImportLine['parts']>();
+  const rows = await q('cost_lines as c')
+    .leftJoin('jobs as j', function () { this.on('j.id', 'c.job_id').andOn('j.organization_id', 'c.organization_id'); })
+    .where('c.organization_id', companyId)
+    .whereIn('c.import_line_id', lineIds)
+    .orderBy('c.id')
+    .select('c.import_line_id', 'c.job_id', 'j.code', 'c.overhead', 'c.category', 'c.amount_cents');
+  const out = new Map<number, NonNullable<ImportLine['parts']>>();
+  for (const r of rows) {
+    const list = out.get(Number(r.import_line_id)) ?? [];
+    list.push({ jobId: r.job_id == null ? null : Number(r.job_id), jobCode: r.code ?? null, overhead: Boolean(r.overhead), category: r.category, amountCents: toInt(r.amount_cents) });
+    out.set(Number(r.import_line_id), list);
+  }
+  return out;
+}
+
 export async function listImportLines(actor: Actor, id: number, query: ImportLinesQuery, kind?: ImportKind): Promise<{ items: ImportLine[]; total: number }> {
   await visibleImport(db(), actor, id, kind);
   const b = linesQuery(db(), actor.companyId).andWhere('l.import_id', id);
@@ -224,7 +246,10 @@ export async function listImportLines(actor: Actor, id: number, query: ImportLin
   if (query.allocation !== 'all') b.andWhere('l.allocation', query.allocation);
   const [{ n }] = await b.clone().clearSelect().count({ n: '*' });
   const rows = await b.orderBy('l.row_number').limit(query.pageSize).offset((query.page - 1) * query.pageSize);
-  return { items: rows.map(lineFromRow), total: Number(n) };
+  const items = rows.map(lineFromRow);
+  const parts = await partsOf(actor.companyId, items.filter((i) => i.allocation).map((i) => i.id));
+  for (const i of items) if (i.allocation) i.parts = parts.get(i.id) ?? [];
+  return { items, total: Number(n) };
 }
 
 async function previewOnly(actor: Actor, id: number, kind?: ImportKind, k: Knex = db()): Promise<imports.ImportRow> {

@@ -8,27 +8,10 @@ import { splitByAmount, splitByPercent } from '../../lib/allocation/split.ts';
 import type { CostCategory } from '../../lib/costs/categories.ts';
 import { findJob } from '../repos/jobs.ts';
 import { audit } from '../repos/audit.ts';
-import { lineFromRow, linesQuery } from './imports.ts';
+import { lineFromRow, linesQuery, partsOf } from './imports.ts';
 import { applyPriceFeedback } from './price-feedback.ts';
 
 const SORTS: Record<ReceiptLineQuery['sort'], string> = { date: 'l.line_date', amount: 'l.total_cents', supplier: 's.name', description: 'l.description', row: 'l.row_number' };
-
-async function partsOf(companyId: string, lineIds: number[], q: Knex = db()) {
-  if (!lineIds.length) return new Map<number, ImportLine['parts']>();
-  const rows = await q('cost_lines as c')
-    .leftJoin('jobs as j', function () { this.on('j.id', 'c.job_id').andOn('j.organization_id', 'c.organization_id'); })
-    .where('c.organization_id', companyId)
-    .whereIn('c.import_line_id', lineIds)
-    .orderBy('c.id')
-    .select('c.import_line_id', 'c.job_id', 'j.code', 'c.overhead', 'c.category', 'c.amount_cents');
-  const out = new Map<number, NonNullable<ImportLine['parts']>>();
-  for (const r of rows) {
-    const list = out.get(Number(r.import_line_id)) ?? [];
-    list.push({ jobId: r.job_id == null ? null : Number(r.job_id), jobCode: r.code ?? null, overhead: Boolean(r.overhead), category: r.category, amountCents: toInt(r.amount_cents) });
-    out.set(Number(r.import_line_id), list);
-  }
-  return out;
-}
 
 /** Committed receipt lines across imports, by allocation: the bookkeeper's to-do list is 'unmatched'. */
 export async function listReceiptLines(actor: Actor, query: ReceiptLineQuery): Promise<{ items: ImportLine[]; total: number; totalCents: number }> {

@@ -72,9 +72,9 @@ export default function CostsTable({ initial, initialFilters, jobs, suppliers, r
 
   return (
     <div className="space-y-3" data-testid="costs-table">
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-5">
-        <label><span className="label">Job</span><JobSelect jobs={jobs} value={f.job} onChange={(v) => set({ job: v })} empty="All jobs" /></label>
-        <label><span className="label">Supplier</span>
+      <div className="grid grid-cols-2 gap-3 lg:grid-cols-5">
+        <label className="col-span-2 sm:col-span-1"><span className="label">Job</span><JobSelect jobs={jobs} value={f.job} onChange={(v) => set({ job: v })} empty="All jobs" /></label>
+        <label className="col-span-2 sm:col-span-1"><span className="label">Supplier</span>
           <select className="input" value={f.supplier} onChange={(e) => set({ supplier: e.target.value ? Number(e.target.value) : '' })}>
             <option value="">All suppliers</option>
             {suppliers.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
@@ -82,7 +82,7 @@ export default function CostsTable({ initial, initialFilters, jobs, suppliers, r
         </label>
         <label><span className="label">From</span><input className="input" type="date" value={f.from} onChange={(e) => set({ from: e.target.value })} /></label>
         <label><span className="label">To</span><input className="input" type="date" value={f.to} onChange={(e) => set({ to: e.target.value })} /></label>
-        <label><span className="label">Search</span><input className="input" type="search" value={f.q} placeholder="Description, job, supplier" onChange={(e) => set({ q: e.target.value })} /></label>
+        <label className="col-span-2 lg:col-span-1"><span className="label">Search</span><input className="input" type="search" value={f.q} placeholder="Description, job, supplier" onChange={(e) => set({ q: e.target.value })} /></label>
       </div>
       <div className="flex flex-wrap items-center gap-2" role="group" aria-label="Category">
         {COST_CATEGORIES.map((c) => <Chip key={c} on={f.category.includes(c)} onClick={() => set({ category: toggle(f.category, c) })}>{COST_CATEGORY_LABELS[c]}</Chip>)}
@@ -97,7 +97,16 @@ export default function CostsTable({ initial, initialFilters, jobs, suppliers, r
         <span className="text-xs text-galv-600">{COST_CATEGORIES.filter((c) => data.totals.byCategory[c]).map((c) => `${COST_CATEGORY_LABELS[c]} ${new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' }).format((data.totals.byCategory[c] ?? 0) / 100)}`).join(' · ')}</span>
         <a className="btn-secondary px-2 py-1 text-xs" href={`/api/costs/export?${queryText}`} download>Export CSV</a>
       </div>
-      <div className="overflow-x-auto rounded-lg border border-galv-200 bg-white">
+      <ul className={`space-y-2 sm:hidden ${loading ? 'opacity-60' : ''}`} aria-label="Cost lines">
+        {data.items.map((r) => (
+          <li key={`${r.kind}-${r.id}`} className="card p-3 text-sm">
+            <div className="flex justify-between gap-2"><span className="font-medium">{r.description ?? '—'}</span><Money cents={r.amountCents} className="font-semibold" /></div>
+            <p className="text-xs text-galv-600">{r.date} · {r.jobCode ?? (r.overhead ? 'Overhead' : 'Unmatched')} · {COST_CATEGORY_LABELS[r.category]}{r.supplierName ? ` · ${r.supplierName}` : ''} · {source(r)}</p>
+          </li>
+        ))}
+        {data.items.length === 0 && <li className="card p-3 text-center text-galv-500">No cost lines match. Clear a filter.</li>}
+      </ul>
+      <div className="hidden overflow-x-auto rounded-lg border border-galv-200 bg-white sm:block">
         <table className="table-dense" aria-busy={loading}>
           <thead>
             <tr>

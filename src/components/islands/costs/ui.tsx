@@ -1,4 +1,5 @@
 import { useEffect, useState, type ReactNode } from 'react';
+import { api } from '../ui/api';
 import { COST_CATEGORIES, COST_CATEGORY_LABELS, type CostCategory } from '../../../lib/costs/categories';
 import { formatMoney } from '../../../lib/format';
 
@@ -83,4 +84,21 @@ export function params(values: Record<string, string | number | boolean | null |
     p.set(k, v === true ? '1' : String(v));
   }
   return p;
+}
+
+/**
+ * A list the page rendered first and the island reloads when its filters, page or `tick`
+ * change (the first render keeps the server's rows).
+ */
+export function useReloadingList<T>(initial: T, url: string, tick: number): [T, (t: T) => void] {
+  const [list, setList] = useState(initial);
+  const [first, setFirst] = useState(url);
+  useEffect(() => {
+    if (tick === 0 && url === first) return;
+    setFirst('');
+    const ctrl = new AbortController();
+    api<T>(url, { signal: ctrl.signal }).then((r) => r.ok && setList(r.data)).catch(() => {});
+    return () => ctrl.abort();
+  }, [url, tick]);
+  return [list, setList];
 }

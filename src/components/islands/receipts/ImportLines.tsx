@@ -23,6 +23,13 @@ const STATE_TONE: Record<LineState, string> = { ok: 'bg-moss-100 text-moss-700',
 const FILTERS: [Filter, string][] = [['all', 'All rows'], ['problems', 'Needs a look'], ['error', 'Errors'], ['skipped', 'Skipped'], ['duplicate', 'Already imported']];
 const PAGE = 100;
 
+/** The job a line matched, or where the bookkeeper put it since. */
+function jobCell(l: ImportLine) {
+  if (l.parts?.length && l.allocation !== 'unmatched') return <span className="font-medium">{[...new Set(l.parts.map((p) => p.jobCode ?? 'Overhead'))].join(' + ')}</span>;
+  if (l.matchedJobCode) return <span className="font-medium">{l.matchedJobCode}</span>;
+  return l.state === 'ok' || l.state === 'committed' ? <span className="text-timber-800">Unmatched</span> : '—';
+}
+
 /** The rows of one import with their state and reason; in a preview, flagged rows can be fixed. */
 export default function ImportLines({ base, importId, kind, headers, editable, initialFilter = 'all', onChanged }: Props) {
   const [filter, setFilter] = useState<Filter>(initialFilter);
@@ -91,7 +98,7 @@ export default function ImportLines({ base, importId, kind, headers, editable, i
                       <td>{l.task ? TIME_TASK_LABELS[l.task as TimeTask] : '—'}</td>
                     </>
                   )}
-                  <td className="whitespace-nowrap">{l.matchedJobCode ? <span className="font-medium">{l.matchedJobCode}</span> : l.state === 'ok' || l.state === 'committed' ? <span className="text-timber-800">Unmatched</span> : '—'}</td>
+                  <td className="whitespace-nowrap">{jobCell(l)}</td>
                 </tr>
                 {(l.reason || (l.state !== 'ok' && l.state !== 'committed')) && (
                   <tr className="bg-galv-50">

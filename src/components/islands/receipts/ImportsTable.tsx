@@ -14,12 +14,14 @@ export interface ImportRowView {
   duplicates: number;
   unmatched: number;
   amountCents: number;
+  hours: number;
 }
 
-type Sort = 'uploadedAt' | 'fileName' | 'supplierName' | 'lines' | 'amountCents' | 'unmatched';
+type Sort = 'uploadedAt' | 'fileName' | 'supplierName' | 'lines' | 'amountCents' | 'unmatched' | 'hours';
 
 /** The company's imports, newest first; sorts and filters in the browser (at most 500 rows). */
-export default function ImportsTable({ rows, pageBase, showMoney = true }: { rows: ImportRowView[]; pageBase: string; showMoney?: boolean }) {
+export default function ImportsTable({ rows, pageBase, kind = 'receipts' }: { rows: ImportRowView[]; pageBase: string; kind?: 'receipts' | 'timesheet' }) {
+  const receipts = kind === 'receipts';
   const [sort, setSort] = useState<Sort>('uploadedAt');
   const [dir, setDir] = useState<'asc' | 'desc'>('desc');
   const [status, setStatus] = useState<'all' | 'preview' | 'committed' | 'unmatched'>('all');
@@ -49,12 +51,12 @@ export default function ImportsTable({ rows, pageBase, showMoney = true }: { row
             <option value="all">All imports</option>
             <option value="preview">Waiting to be committed</option>
             <option value="committed">Committed</option>
-            <option value="unmatched">With unmatched lines</option>
+            {receipts && <option value="unmatched">With unmatched lines</option>}
           </select>
         </label>
         <label className="min-w-[12rem] flex-1">
           <span className="label">Search</span>
-          <input className="input" type="search" value={q} placeholder="File or supplier" onChange={(e) => setQ(e.target.value)} />
+          <input className="input" type="search" value={q} placeholder={receipts ? 'File or supplier' : 'File'} onChange={(e) => setQ(e.target.value)} />
         </label>
       </div>
       <div className="overflow-x-auto rounded-lg border border-galv-200 bg-white">
@@ -64,11 +66,11 @@ export default function ImportsTable({ rows, pageBase, showMoney = true }: { row
               <th className="num">#</th>
               <SortHeader label="Uploaded" col="uploadedAt" sort={sort} dir={dir} onSort={onSort} />
               <SortHeader label="File" col="fileName" sort={sort} dir={dir} onSort={onSort} />
-              <SortHeader label="Supplier" col="supplierName" sort={sort} dir={dir} onSort={onSort} />
+              {receipts && <SortHeader label="Supplier" col="supplierName" sort={sort} dir={dir} onSort={onSort} />}
               <th>State</th>
-              <SortHeader label="Lines" col="lines" sort={sort} dir={dir} onSort={onSort} className="num" />
-              <SortHeader label="Unmatched" col="unmatched" sort={sort} dir={dir} onSort={onSort} className="num" />
-              {showMoney && <SortHeader label="Amount" col="amountCents" sort={sort} dir={dir} onSort={onSort} className="num" />}
+              <SortHeader label={receipts ? 'Lines' : 'Rows'} col="lines" sort={sort} dir={dir} onSort={onSort} className="num" />
+              {receipts ? <SortHeader label="Unmatched" col="unmatched" sort={sort} dir={dir} onSort={onSort} className="num" /> : <SortHeader label="Hours" col="hours" sort={sort} dir={dir} onSort={onSort} className="num" />}
+              {receipts && <SortHeader label="Amount" col="amountCents" sort={sort} dir={dir} onSort={onSort} className="num" />}
             </tr>
           </thead>
           <tbody>
@@ -77,18 +79,18 @@ export default function ImportsTable({ rows, pageBase, showMoney = true }: { row
                 <td className="num text-galv-500">{r.id}</td>
                 <td className="whitespace-nowrap">{formatDate(r.uploadedAt)}<span className="block text-xs text-galv-500">{r.uploadedByName}</span></td>
                 <td><a href={`${pageBase}/${r.id}`} className="font-medium">{r.fileName}</a></td>
-                <td>{r.supplierName ?? '—'}</td>
+                {receipts && <td>{r.supplierName ?? '—'}</td>}
                 <td>{r.status === 'preview' ? <span className="pill bg-timber-100 text-timber-800">Waiting to commit</span> : <span className="pill bg-moss-100 text-moss-700">Committed</span>}
                   {r.errors > 0 && <span className="ml-1 pill bg-rust-100 text-rust-700">{r.errors} error{r.errors === 1 ? '' : 's'}</span>}
                   {r.duplicates > 0 && <span className="ml-1 pill bg-galv-100 text-galv-700">{r.duplicates} already in</span>}</td>
                 <td className="num">{r.lines}</td>
-                <td className="num">{r.unmatched ? <a href={`/receipts/allocate?importId=${r.id}`}>{r.unmatched}</a> : 0}</td>
-                {showMoney && <td className="num"><Money cents={r.amountCents} /></td>}
+                {receipts ? <td className="num">{r.unmatched ? <a href={`/receipts/allocate?importId=${r.id}`}>{r.unmatched}</a> : 0}</td> : <td className="num">{r.hours}</td>}
+                {receipts && <td className="num"><Money cents={r.amountCents} /></td>}
               </tr>
             ))}
-            {shown.length === 0 && <tr><td colSpan={8} className="py-6 text-center text-galv-500">No imports yet. Drop a supplier’s CSV above.</td></tr>}
+            {shown.length === 0 && <tr><td colSpan={8} className="py-6 text-center text-galv-500">No imports yet. Drop a {receipts ? 'supplier’s CSV' : 'timesheet'} above.</td></tr>}
           </tbody>
-          {showMoney && shown.length > 0 && <tfoot><tr><td colSpan={7} className="text-right font-medium">{shown.length} import{shown.length === 1 ? '' : 's'}</td><td className="num font-semibold"><Money cents={total} /></td></tr></tfoot>}
+          {receipts && shown.length > 0 && <tfoot><tr><td colSpan={7} className="text-right font-medium">{shown.length} import{shown.length === 1 ? '' : 's'}</td><td className="num font-semibold"><Money cents={total} /></td></tr></tfoot>}
         </table>
       </div>
       {!all && shown.length > 25 && <button type="button" className="btn-secondary" onClick={() => setAll(true)}>Show all {shown.length} imports</button>}

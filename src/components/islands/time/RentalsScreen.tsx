@@ -1,11 +1,11 @@
-import { useEffect, useState, type SubmitEvent } from 'react';
+import { useState, type SubmitEvent } from 'react';
 import { EQUIPMENT_KINDS, EQUIPMENT_LABELS, describePlan, rentalCost, rentalHours, type EquipmentKind } from '../../../lib/rentals/rates';
 import { rentalInput, type RateCardRow, type Rental } from '../../../lib/rentals/schema';
 import { parseMoney, toCents } from '../../../lib/csv/numbers';
 import { api } from '../ui/api';
 import { Field, FormError } from '../ui/Field';
 import { validate } from '../ui/form';
-import { JobSelect, Money, Notice, Pager, params, type JobOption } from '../costs/ui';
+import { JobSelect, Money, Notice, Pager, params, useReloadingList, type JobOption } from '../costs/ui';
 
 interface Props {
   jobs: JobOption[];
@@ -49,17 +49,11 @@ export default function RentalsScreen({ jobs, suppliers, rateCard, initial, sees
   const [fields, setFields] = useState<Record<string, string>>({});
   const [error, setError] = useState<string | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
-  const [list, setList] = useState(initial);
   const [filterJob, setFilterJob] = useState<number | ''>(presetJobId ?? '');
   const [page, setPage] = useState(1);
   const [tick, setTick] = useState(0);
 
-  useEffect(() => {
-    if (tick === 0 && page === 1 && filterJob === (presetJobId ?? '')) return;
-    const ctrl = new AbortController();
-    api<typeof initial>(`/api/rentals?${params({ job: filterJob, page, pageSize: PAGE })}`, { signal: ctrl.signal }).then((r) => r.ok && setList(r.data)).catch(() => {});
-    return () => ctrl.abort();
-  }, [filterJob, page, tick, presetJobId]);
+  const [list] = useReloadingList(initial, `/api/rentals?${params({ job: filterJob, page, pageSize: PAGE })}`, tick);
 
   const hours = rentalHours(v.startAt, v.endAt);
   const preview = seesMoney

@@ -1,10 +1,10 @@
-import { useEffect, useState, type SubmitEvent } from 'react';
+import { useState, type SubmitEvent } from 'react';
 import { timeEntryInput, type TimeEntry, type TimeOptions } from '../../../lib/labour/schema';
 import { TIME_TASK_LABELS, type TimeTask } from '../../../lib/labour/tasks';
 import { api } from '../ui/api';
 import { FormError } from '../ui/Field';
 import { validate } from '../ui/form';
-import { Money, Notice, Pager, params } from '../costs/ui';
+import { Money, Notice, Pager, params, useReloadingList } from '../costs/ui';
 
 interface Props {
   options: TimeOptions;
@@ -29,15 +29,9 @@ export default function TimeScreen({ options, initial, seesMoney, today, presetJ
   const [busy, setBusy] = useState(false);
   const [filterJob, setFilterJob] = useState<number | ''>(presetJobId ?? '');
   const [page, setPage] = useState(1);
-  const [list, setList] = useState(initial);
   const [tick, setTick] = useState(0);
 
-  useEffect(() => {
-    if (tick === 0 && page === 1 && filterJob === (presetJobId ?? '')) return;
-    const ctrl = new AbortController();
-    api<typeof initial>(`/api/time?${params({ job: filterJob, page, pageSize: PAGE })}`, { signal: ctrl.signal }).then((r) => r.ok && setList(r.data)).catch(() => {});
-    return () => ctrl.abort();
-  }, [filterJob, page, tick, presetJobId]);
+  const [list] = useReloadingList(initial, `/api/time?${params({ job: filterJob, page, pageSize: PAGE })}`, tick);
 
   const crew = Object.entries(hours).filter(([, h]) => h.trim() !== '');
 
