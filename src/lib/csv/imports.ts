@@ -83,6 +83,26 @@ export interface ImportDetail {
   commitSummary: CommitSummary | null;
 }
 
+/** One import in the list of a company's imports. */
+export interface ImportListItem {
+  id: number;
+  kind: ImportKind;
+  fileName: string;
+  fileBytes: number;
+  status: string;
+  supplierName: string | null;
+  uploadedByName: string | null;
+  uploadedAt: string;
+  committedAt: string | null;
+  lines: number;
+  errors: number;
+  duplicates: number;
+  unmatched: number;
+  amountCents: number;
+  /** timesheets: hours on the good rows */
+  hours: number;
+}
+
 export interface CommitSummary {
   added: number;
   duplicates: number;

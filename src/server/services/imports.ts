@@ -4,7 +4,7 @@ import type { Actor } from '../http.ts';
 import { AppError, notFound } from '../../lib/errors.ts';
 import { mappingSchema, resolveColumns, type ImportKind, type Mapping } from '../../lib/csv/mapping.ts';
 import { normaliseReceiptRow, normaliseTimesheetRow } from '../../lib/csv/normalise.ts';
-import type { CommitSummary, ImportCounts, ImportDetail, ImportLine, ImportLinesQuery } from '../../lib/csv/imports.ts';
+import type { CommitSummary, ImportCounts, ImportDetail, ImportLine, ImportLinesQuery, ImportListItem } from '../../lib/csv/imports.ts';
 import { fieldErrors } from '../../lib/errors.ts';
 import * as imports from '../repos/imports.ts';
 import { findSupplier, findSupplierByName } from '../repos/suppliers.ts';
@@ -122,24 +122,6 @@ export async function getImport(actor: Actor, id: number, kind?: ImportKind, k: 
   };
 }
 
-export interface ImportListItem {
-  id: number;
-  kind: ImportKind;
-  fileName: string;
-  fileBytes: number;
-  status: string;
-  supplierName: string | null;
-  uploadedByName: string | null;
-  uploadedAt: string;
-  committedAt: string | null;
-  lines: number;
-  errors: number;
-  duplicates: number;
-  unmatched: number;
-  amountCents: number;
-  /** timesheets: hours on the good rows */
-  hours: number;
-}
 
 export async function listImports(actor: Actor, kind: ImportKind): Promise<ImportListItem[]> {
   const rows = await imports.listImports(actor.companyId, { kind, limit: 500 });

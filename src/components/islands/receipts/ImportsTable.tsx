@@ -1,26 +1,13 @@
 import { useMemo, useState } from 'react';
 import { formatDate } from '../../../lib/format';
+import type { ImportListItem } from '../../../lib/csv/imports';
 import { Money, SortHeader } from '../costs/ui';
 
-export interface ImportRowView {
-  id: number;
-  fileName: string;
-  status: string;
-  supplierName: string | null;
-  uploadedByName: string | null;
-  uploadedAt: string;
-  lines: number;
-  errors: number;
-  duplicates: number;
-  unmatched: number;
-  amountCents: number;
-  hours: number;
-}
 
 type Sort = 'uploadedAt' | 'fileName' | 'supplierName' | 'lines' | 'amountCents' | 'unmatched' | 'hours';
 
 /** The company's imports, newest first; sorts and filters in the browser (at most 500 rows). */
-export default function ImportsTable({ rows, pageBase, kind = 'receipts' }: { rows: ImportRowView[]; pageBase: string; kind?: 'receipts' | 'timesheet' }) {
+export default function ImportsTable({ rows, pageBase, kind = 'receipts' }: { rows: ImportListItem[]; pageBase: string; kind?: 'receipts' | 'timesheet' }) {
   const receipts = kind === 'receipts';
   const [sort, setSort] = useState<Sort>('uploadedAt');
   const [dir, setDir] = useState<'asc' | 'desc'>('desc');
