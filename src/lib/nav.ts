@@ -13,15 +13,19 @@ export const NAV: NavItem[] = [
   { href: '/', label: 'Dashboard', action: 'dashboard:read', group: 'work' },
   { href: '/jobs', label: 'Jobs', action: 'jobs:read', group: 'work' },
   { href: '/customers', label: 'Customers', action: 'customers:read', group: 'work' },
-  { href: '/invoices', label: 'Invoices', action: 'invoices:read', group: 'money' },
-  { href: '/receivables', label: 'Receivables', action: 'receivables:read', group: 'money' },
+  { href: '/time', label: 'Crew time', action: 'time:log', group: 'work' },
   { href: '/pricebook', label: 'Price book', action: 'pricebook:read', group: 'estimating' },
   { href: '/styles', label: 'Fence styles', action: 'styles:read', group: 'estimating' },
   { href: '/rates', label: 'Labour rates', action: 'styles:read', group: 'estimating' },
+  { href: '/receipts', label: 'Receipts', action: 'receipts:read', group: 'money' },
+  { href: '/costs', label: 'Costs', action: 'costs:read', group: 'money' },
+  { href: '/invoices', label: 'Invoices', action: 'invoices:read', group: 'money' },
+  { href: '/receivables', label: 'Receivables', action: 'receivables:read', group: 'money' },
   { href: '/settings', label: 'Company settings', action: 'settings:write', group: 'company' },
   { href: '/settings/members', label: 'Members', action: 'members:read', group: 'company' },
-  { href: '/settings/permissions', label: 'Permissions', action: 'settings:read', group: 'company' },
+  { href: '/workers', label: 'Workers', action: 'workers:read', group: 'company' },
   { href: '/settings/reminders', label: 'Reminders and billing', action: 'reminders:write', group: 'company' },
+  { href: '/settings/permissions', label: 'Permissions', action: 'settings:read', group: 'company' },
 ];
 
 export const NAV_GROUPS: Record<NavItem['group'], string> = {

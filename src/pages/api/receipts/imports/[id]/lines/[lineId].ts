@@ -1,0 +1,3 @@
+import { receiptImports } from '../../../../../../server/services/import-routes.ts';
+
+export const { PATCH } = receiptImports.line;

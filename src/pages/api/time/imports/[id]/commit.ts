@@ -1,0 +1,3 @@
+import { timesheetImports } from '../../../../../server/services/import-routes.ts';
+
+export const { POST } = timesheetImports.commit;
