@@ -15,7 +15,7 @@ import { insertBid, writeEstimates } from '../repos/bids.ts';
 import { seedDefaultRates } from '../services/company-defaults.ts';
 
 /** The demo's invented suppliers; the costs seed reuses these names. */
-export const DEMO_SUPPLIERS = ['Wrenfield Lumber Yard', 'Kestrel Fence Supply', 'Millrace Hardware & Rental'] as const;
+export const DEMO_SUPPLIERS = ['Cedar Hollow Lumber', 'Ironbridge Fence Supply', 'Millrace Hardware & Rental'] as const;
 const [YARD, FENCE, RENTAL] = DEMO_SUPPLIERS;
 
 /** Invented unit costs, cents, and who sells each item. */

@@ -85,18 +85,22 @@ const BILL: Record<string, [string, number][]> = {
 const FIRST_DELIVERY = new Set(['post8', 'srpost', 'cllp', 'cltp', 'vppost', 'orpost', 'concrete', 'gravel']);
 
 interface CrewMember { name: string; wage: number; lead?: boolean }
-/** Jonah Pike's crew logs from the phone; Hank Delacroix's crew hands in a timesheet file. */
+/**
+ * Jonah Pike's crew logs from the phone; Hank Delacroix's crew hands in a timesheet file.
+ * Each crew's wages average about what the bids price a crew hour at ($28–30), so labour
+ * cost and labour hours tell the same story against the bids.
+ */
 const CREWS: Record<'pike' | 'delacroix', CrewMember[]> = {
   pike: [
-    { name: 'Jonah Pike', wage: 3100, lead: true },
-    { name: 'Ezra Holloway', wage: 2450 },
-    { name: 'Marisol Quintero', wage: 2275 },
-    { name: 'Tobias Wren', wage: 1950 },
+    { name: 'Jonah Pike', wage: 3400, lead: true },
+    { name: 'Ezra Holloway', wage: 2900 },
+    { name: 'Marisol Quintero', wage: 2700 },
+    { name: 'Tobias Wren', wage: 2400 },
   ],
   delacroix: [
-    { name: 'Hank Delacroix', wage: 2900, lead: true },
-    { name: 'Priya Nandakumar', wage: 2325 },
-    { name: 'Colm Aherne', wage: 2100 },
+    { name: 'Hank Delacroix', wage: 3300, lead: true },
+    { name: 'Priya Nandakumar', wage: 2800 },
+    { name: 'Colm Aherne', wage: 2500 },
   ],
 };
 
@@ -204,7 +208,12 @@ interface DemoJob {
   end: string;
   commercial: boolean;
   estimates: Record<string, number>;
+  /** Person-hours by time task that the accepted bid priced (empty without a bid). */
+  bidHours: Partial<Record<TimeTask, number>>;
 }
+
+/** The bid's labour tasks as the crews log them. */
+const BID_TASK: Record<string, TimeTask> = { posts: 'dig_set_posts', rails_infill: 'rails_infill', gates: 'gates', setup: 'cleanup' };
 
 async function demoJobs(k: Knex, today: string): Promise<DemoJob[]> {
   const rows = await k('jobs as j')
@@ -213,6 +222,18 @@ async function demoJobs(k: Knex, today: string): Promise<DemoJob[]> {
     .whereIn('j.status', ['won', 'building', 'completed', 'closed'])
     .orderBy('j.id')
     .select('j.id', 'j.code', 'j.status', 'j.crew_lead_user_id', 'j.start_date', 'j.completed_date', 'j.decided_date', 'j.commercial', 's.name as style', 's.kind');
+  const labour = (await k('bids as b')
+    .join('bid_labour as l', 'l.bid_id', 'b.id')
+    .where({ 'b.organization_id': DEMO.orgId, 'b.status': 'accepted' })
+    .select('b.job_id', 'l.task', 'l.man_hours')) as { job_id: number; task: string; man_hours: string }[];
+  const hoursByJob = new Map<number, Partial<Record<TimeTask, number>>>();
+  for (const l of labour) {
+    const task = BID_TASK[l.task];
+    if (!task) continue;
+    const h = hoursByJob.get(Number(l.job_id)) ?? {};
+    h[task] = (h[task] ?? 0) + Number(l.man_hours);
+    hoursByJob.set(Number(l.job_id), h);
+  }
   const est = (await k('job_estimates').where('organization_id', DEMO.orgId).groupBy('job_id', 'category').select('job_id', 'category', k.raw('SUM(amount_cents) AS cents'))) as { job_id: number; category: string; cents: string }[];
   const byJob = new Map<number, Record<string, number>>();
   for (const e of est) byJob.set(Number(e.job_id), { ...(byJob.get(Number(e.job_id)) ?? {}), [e.category]: Number(e.cents) });
@@ -230,6 +251,7 @@ async function demoJobs(k: Knex, today: string): Promise<DemoJob[]> {
       end: r.completed_date ?? addDays(start, 8),
       commercial: Boolean(r.commercial),
       estimates: byJob.get(Number(r.id)) ?? {},
+      bidHours: hoursByJob.get(Number(r.id)) ?? {},
     };
   });
 }
@@ -350,11 +372,17 @@ export async function seedDemoCosts(knex: Knex, today = new Date()): Promise<voi
     const blended = crew.reduce((a, m) => a + m.wage, 0) / crew.length;
     const estimatedHours = (job.estimates.labour ?? 0) / (blended * (1 + burden / 100));
     const factor = job.style === LABOUR_OVERRUN.style ? LABOUR_OVERRUN.factor + (r.next() - 0.5) * 0.06 : 1 + (r.next() - 0.5) * 0.12;
+    // Hours follow the accepted bid's own hours by task, so hours per foot, hole and gate
+    // compare like with like; travel is never bid. Without a bid, shares of the estimate.
+    const hasBidHours = Object.keys(job.bidHours).length > 0;
+    const bidTotal = Object.values(job.bidHours).reduce((a, h) => a + (h ?? 0), 0);
+    const hoursFor = (task: TimeTask, share: number) =>
+      hasBidHours ? (task === 'travel_other' ? bidTotal * 0.04 : job.bidHours[task] ?? 0) : estimatedHours * share;
     let day = job.start;
     let dayLeft = 0;
     let onCrew: CrewMember[] = [];
     for (const [task, share] of TASK_SHARE) {
-      let left = Math.round(estimatedHours * factor * share * progress * 4) / 4;
+      let left = Math.round(hoursFor(task, share) * factor * progress * 4) / 4;
       while (left > 0) {
         if (dayLeft <= 0) {
           if (onCrew.length) day = workday(addDays(day, 1));
