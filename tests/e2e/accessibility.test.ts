@@ -31,6 +31,12 @@ const PAGES: { path: string; as: string }[] = [
   { path: '/invoices/new', as: 'bookkeeper@example.com' },
   { path: '/receivables', as: 'bookkeeper@example.com' },
   { path: '/settings/reminders', as: 'owner@example.com' },
+  { path: '/receipts', as: 'bookkeeper@example.com' },
+  { path: '/receipts/allocate', as: 'bookkeeper@example.com' },
+  { path: '/costs', as: 'bookkeeper@example.com' },
+  { path: '/workers', as: 'bookkeeper@example.com' },
+  { path: '/time', as: 'crew@example.com' },
+  { path: '/time/rentals', as: 'crew@example.com' },
 ];
 const PUBLIC = ['/sign-in', '/sign-up', '/forgot-password'];
 

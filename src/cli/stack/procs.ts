@@ -39,8 +39,10 @@ export function startProc(name: string, cmd: string, args: string[], opts: { env
   const log = path.join(opts.logDir, `${name}.log`);
   const out = createWriteStream(log, { flags: 'a' });
   const child = spawn(cmd, args, { cwd: opts.cwd, env: opts.env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
-  child.stdout?.pipe(out);
-  child.stderr?.pipe(out);
+  // Both streams feed one file: neither may end it for the other.
+  child.stdout?.pipe(out, { end: false });
+  child.stderr?.pipe(out, { end: false });
+  child.once('close', () => out.end());
   if (opts.inherit) {
     child.stdout?.on('data', (d) => process.stdout.write(d));
     child.stderr?.on('data', (d) => process.stderr.write(d));

@@ -5,6 +5,7 @@ import { makeCompany, makeCustomer, makeJob, uniqueEmail, type TestCompany } fro
 import { apiRoutes, type ApiRoute, type Method } from '../../setup/routes';
 import { BILLING_FIXTURES } from '../../setup/invoices';
 import { BIDS_FIXTURES } from '../../setup/bids';
+import { COSTS_FIXTURES } from '../../setup/costs';
 
 /**
  * Every API route × every role, plus signed out and a member of another company, against
@@ -21,6 +22,7 @@ interface Fixture {
 const FIXTURES: Record<string, Fixture> = {
   ...BILLING_FIXTURES,
   ...BIDS_FIXTURES,
+  ...COSTS_FIXTURES,
   '/api/jobs/[id]': { params: async (co) => ({ id: String(await assignedJob(co)) }) },
   '/api/customers/[id]': { params: async (co) => ({ id: String((await makeCustomer(co.owner)).id) }) },
   '/api/members/[id]': {
@@ -103,9 +105,12 @@ describe('permissions matrix', () => {
       const hasIds = /\[\w+\]/.test(r.pattern);
       for (const { method, access } of r.methods) {
         if (!access) continue;
-        const fixture = FIXTURES[r.pattern];
-        let shared: Params = hasIds ? await fixture.params(a) : {};
-        const pathFor = async () => (hasIds && MUTATING.has(method) ? fill(r.pattern, await fixture.params(a)) : fill(r.pattern, shared));
+        const given = FIXTURES[r.pattern];
+        const fixture: Fixture | undefined = given && {
+          params: (co) => given.params(co).catch((e: Error) => { throw new Error(`fixture for ${r.pattern}: ${e.message}`); }),
+        };
+        let shared: Params = hasIds ? await fixture!.params(a) : {};
+        const pathFor = async () => (hasIds && MUTATING.has(method) ? fill(r.pattern, await fixture!.params(a)) : fill(r.pattern, shared));
         const expectStatus = (who: string, status: number, allowed: boolean | 'public', want404 = false) => {
           checks++;
           let ok: boolean;
