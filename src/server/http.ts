@@ -120,7 +120,7 @@ export function actorOf(ctx: APIContext, access: Access): Actor | AppError {
  * service call. Permission is checked before the body is read, so a crew lead posting to
  * a route it may not use gets 403 whatever it sent.
  */
-export type DeclaredRoute = APIRoute & { access: Access };
+export type DeclaredRoute = APIRoute & { access: Access; strictBody: boolean };
 
 export function route<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined>(def: RouteDef<B, Q>): DeclaredRoute {
   // The access travels with the handler, so the permission-matrix test can read every
@@ -155,7 +155,7 @@ export function route<B extends z.ZodType | undefined = undefined, Q extends z.Z
     } catch (err) {
       return handleError(err);
     }
-  }, { access: def.access });
+  }, { access: def.access, strictBody: Boolean(def.body) });
 }
 
 /** A positive integer id from a route parameter, or a 404 (never a 500 for '/jobs/abc'). */

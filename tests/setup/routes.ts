@@ -9,7 +9,7 @@ export interface ApiRoute {
   /** e.g. /api/jobs/[id] */
   pattern: string;
   file: string;
-  methods: { method: Method; access: string | null }[];
+  methods: { method: Method; access: string | null; strictBody: boolean }[];
 }
 
 function walk(dir: string, out: string[]): void {
@@ -32,10 +32,11 @@ export async function apiRoutes(): Promise<ApiRoute[]> {
     const mod = (await import(file)) as Record<string, unknown>;
     const methods: ApiRoute['methods'] = [];
     for (const m of [...METHODS, 'ALL'] as const) {
-      const h = mod[m] as ((...a: unknown[]) => unknown) & { access?: string } | undefined;
+      const h = mod[m] as ((...a: unknown[]) => unknown) & { access?: string; strictBody?: boolean } | undefined;
       if (typeof h === 'function') {
-        if (m === 'ALL') for (const mm of METHODS) methods.push({ method: mm, access: h.access ?? null });
-        else methods.push({ method: m, access: h.access ?? null });
+        const entry = { access: h.access ?? null, strictBody: Boolean(h.strictBody) };
+        if (m === 'ALL') for (const mm of METHODS) methods.push({ method: mm, ...entry });
+        else methods.push({ method: m, ...entry });
       }
     }
     routes.push({ pattern, file, methods });

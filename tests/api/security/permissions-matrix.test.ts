@@ -103,7 +103,7 @@ describe('permissions matrix', () => {
     for (const r of routes) {
       if (UNDECLARED[r.pattern]) continue;
       const hasIds = /\[\w+\]/.test(r.pattern);
-      for (const { method, access } of r.methods) {
+      for (const { method, access, strictBody } of r.methods) {
         if (!access) continue;
         const given = FIXTURES[r.pattern];
         const fixture: Fixture | undefined = given && {
@@ -140,6 +140,8 @@ describe('permissions matrix', () => {
           const allowed = access === 'public' || access === 'signed-in' || can(role, access as Action);
           const res = await call(a.as(role), method, allowed ? await pathFor() : fill(r.pattern, shared));
           expectStatus(role, res.status, allowed);
+          // A declared body is a strict schema: the probe's unknown field is refused with 400.
+          if (allowed && strictBody && MUTATING.has(method) && res.status !== 400) mismatches.push(`${method} ${r.pattern} as ${role} accepted an unknown field (${res.status})`);
           if (role === 'crew_lead' && method === 'GET' && res.status === 200) {
             const leaked = moneyKeys(res.body);
             if (leaked.length) mismatches.push(`GET ${r.pattern} shows a crew lead ${leaked.join(', ')}`);
