@@ -18,6 +18,15 @@ export interface CsvRecord {
 
 const BOM = '\uFEFF';
 
+/** No receipt or timesheet export has a row this long; a file that does is not one. */
+export const MAX_RECORD_CHARS = 100_000;
+
+export class CsvRecordTooLong extends Error {
+  constructor(readonly row: number, readonly limit: number) {
+    super(`Row ${row} is longer than ${limit.toLocaleString('en-US')} characters: this does not look like a receipt or timesheet export.`);
+  }
+}
+
 /** The delimiter used most outside quotes in a header line; comma on a tie. */
 export function sniffDelimiter(line: string): Delimiter {
   const counts: Record<Delimiter, number> = { ',': 0, ';': 0, '\t': 0 };
@@ -42,9 +51,13 @@ export class CsvTokenizer {
   private started = false;
   /** Text held back until the first line is complete, to sniff the delimiter from it. */
   private head = '';
+  /** Characters in the record being read. */
+  private recordChars = 0;
+  private readonly maxRecordChars: number;
 
-  constructor(opts: { delimiter?: Delimiter | 'auto' } = {}) {
+  constructor(opts: { delimiter?: Delimiter | 'auto'; maxRecordChars?: number } = {}) {
     this.delimiter = !opts.delimiter || opts.delimiter === 'auto' ? null : opts.delimiter;
+    this.maxRecordChars = opts.maxRecordChars ?? MAX_RECORD_CHARS;
   }
 
   push(chunk: string): CsvRecord[] {
@@ -55,7 +68,10 @@ export class CsvTokenizer {
     if (this.delimiter === null) {
       this.head += chunk;
       const nl = firstLineEnd(this.head);
-      if (nl < 0) return [];
+      if (nl < 0) {
+        if (this.head.length > this.maxRecordChars) throw new CsvRecordTooLong(1, this.maxRecordChars);
+        return [];
+      }
       this.delimiter = sniffDelimiter(this.head.slice(0, nl));
       chunk = this.head;
       this.head = '';
@@ -78,6 +94,7 @@ export class CsvTokenizer {
   }
 
   private emit(out: CsvRecord[]): void {
+    this.recordChars = 0;
     this.cells.push(this.field);
     this.row++;
     out.push({ cells: this.cells, row: this.row });
@@ -91,6 +108,7 @@ export class CsvTokenizer {
     const d = this.delimiter as string;
     for (let i = 0; i < text.length; i++) {
       const ch = text[i];
+      if (this.field.length + this.recordChars > this.maxRecordChars) throw new CsvRecordTooLong(this.row + 1, this.maxRecordChars);
       switch (this.state) {
         case 'afterCR':
           this.state = 'fieldStart';
@@ -101,7 +119,7 @@ export class CsvTokenizer {
           this.state = 'unquoted';
         // falls through
         case 'unquoted': {
-          if (ch === d) { this.cells.push(this.field); this.field = ''; this.state = 'fieldStart'; }
+          if (ch === d) { this.recordChars += this.field.length + 1; this.cells.push(this.field); this.field = ''; this.state = 'fieldStart'; }
           else if (ch === '\n') this.emit(out);
           else if (ch === '\r') { this.emit(out); this.state = 'afterCR'; }
           else {
@@ -127,7 +145,7 @@ export class CsvTokenizer {
         }
         case 'quoteInQuoted':
           if (ch === '"') { this.field += '"'; this.state = 'quoted'; }
-          else if (ch === d) { this.cells.push(this.field); this.field = ''; this.state = 'fieldStart'; }
+          else if (ch === d) { this.recordChars += this.field.length + 1; this.cells.push(this.field); this.field = ''; this.state = 'fieldStart'; }
           else if (ch === '\n') this.emit(out);
           else if (ch === '\r') { this.emit(out); this.state = 'afterCR'; }
           else { this.field += ch; this.state = 'unquoted'; }

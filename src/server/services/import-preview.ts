@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
-import { CsvTokenizer, type CsvRecord, type Delimiter } from '../../lib/csv/tokenizer.ts';
+import { AppError } from '../../lib/errors.ts';
+import { CsvRecordTooLong, CsvTokenizer, type CsvRecord, type Delimiter } from '../../lib/csv/tokenizer.ts';
 import { chooseMapping, guessMapping, headerSignature, requiredProblems, resolveColumns, type ImportKind, type Mapping } from '../../lib/csv/mapping.ts';
 import { normaliseReceiptRow, normaliseTimesheetRow, type ReceiptLineValues, type RowContext, type TimesheetLineValues } from '../../lib/csv/normalise.ts';
 import { OccurrenceCounter, receiptLineKey, timesheetLineKey } from '../../lib/csv/line-key.ts';
@@ -80,10 +81,15 @@ export async function buildPreview(k: Knex, actor: Actor, importId: number, opts
   if (!imp) throw new Error(`import ${importId} vanished`);
   const fixes = await existingFixes(k, actor.companyId, importId);
   try {
-    await parseInto(k, actor, imp.kind, importId, opts, fixes, 'utf-8');
+    try {
+      await parseInto(k, actor, imp.kind, importId, opts, fixes, 'utf-8');
+    } catch (err) {
+      if (!(err instanceof NotUtf8)) throw err;
+      await parseInto(k, actor, imp.kind, importId, opts, fixes, 'windows-1252');
+    }
   } catch (err) {
-    if (!(err instanceof NotUtf8)) throw err;
-    await parseInto(k, actor, imp.kind, importId, opts, fixes, 'windows-1252');
+    if (err instanceof CsvRecordTooLong) throw new AppError('BAD_INPUT', err.message, { file: `Row ${err.row} is too long.` });
+    throw err;
   }
 }
 
