@@ -12,6 +12,8 @@ export const ERROR_STATUS = {
   ORIGIN_REFUSED: 403,
   NOT_FOUND: 404,
   CONFLICT: 409,
+  /** A webhook event that depends on one not yet received: the sender retries. */
+  EVENT_NOT_READY: 409,
   DUPLICATE_JOB_CODE: 409,
   DUPLICATE_EMAIL: 409,
   ALREADY_MEMBER: 409,

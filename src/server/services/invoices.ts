@@ -24,7 +24,10 @@ export async function tx<T>(fn: (trx: Knex.Transaction) => Promise<T>): Promise<
       return await db().transaction(fn);
     } catch (err) {
       const code = (err as { code?: string }).code;
-      if (attempt >= 3 || (code !== 'ER_LOCK_DEADLOCK' && code !== 'ER_LOCK_WAIT_TIMEOUT')) throw err;
+      if (attempt >= 8 || (code !== 'ER_LOCK_DEADLOCK' && code !== 'ER_LOCK_WAIT_TIMEOUT')) throw err;
+      // InnoDB chose this transaction as the deadlock victim: wait a little, longer each
+      // time and with jitter so the two sides do not collide again, and run it again.
+      await new Promise((r) => setTimeout(r, Math.random() * 15 * attempt));
     }
   }
 }

@@ -81,7 +81,12 @@ async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event):
       // Refunds made in Tallypost are recorded when made; this catches one whose record was lost, or made elsewhere.
       const intent = String(obj.payment_intent ?? '');
       const pay = intent ? await repo.findPaymentByIntent(intent, trx) : undefined;
-      if (!pay) return { companyId: null, invoiceId: null, outcome: 'ignored: unknown payment' };
+      if (!pay) {
+        // A refund of one of our payments that has not landed yet (events can arrive in any
+        // order): refuse it so Stripe delivers it again later; the event id is not kept.
+        if (meta.success) throw new AppError('EVENT_NOT_READY', 'The payment this refund belongs to is not recorded yet; deliver the event again later.');
+        return { companyId: null, invoiceId: null, outcome: 'ignored: unknown payment' };
+      }
       const companyId = (await trx('payments').where('id', pay.id).first('organization_id')).organization_id as string;
       const s = await billingSettings(companyId, trx);
       const refunds = ((obj.refunds as { data?: { id: string; amount: number }[] } | undefined)?.data ?? []);
