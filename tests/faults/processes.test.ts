@@ -5,6 +5,7 @@ import { waitForMail, mailTo } from '../setup/mail';
 import { roundRobin, startApp, startWorker, type Proc } from '../setup/processes';
 import { stack } from '../setup/stack';
 import { closeTestDb, testDb } from '../setup/db';
+import { billableJob, draft, issue, postWebhook } from '../setup/invoices';
 
 let apps: (Proc & { url: string })[] = [];
 let lb: Awaited<ReturnType<typeof roundRobin>>;
@@ -37,6 +38,33 @@ describe('two app processes behind a round-robin split', () => {
     const made = await Promise.all(Array.from({ length: 12 }, (_, i) => c.post('/api/jobs', { title: `Split ${i}`, customerId: customer.id })));
     expect(made.map((r) => r.status)).toEqual(Array(12).fill(201));
     expect(new Set(made.map((r) => r.body.code)).size).toBe(12);
+  });
+
+  it('issues invoice numbers without gaps when both processes issue at once', async () => {
+    const c = new Client(lb.url);
+    expect((await c.signIn(co.emails.owner, PASSWORD)).status).toBe(200);
+    const { job } = await billableJob(co, 50_000_000);
+    const drafts = await Promise.all(Array.from({ length: 12 }, () => draft(c, { jobId: job.id, kind: 'deposit', requestedCents: 1_000, overDepositCapOk: true, overrideReason: 'Split test' })));
+    const before = lb.hits.slice();
+    const issued = await Promise.all(drafts.map((d) => c.post(`/api/invoices/${d.id}/issue`)));
+    expect(issued.map((r) => r.status)).toEqual(Array(12).fill(200));
+    expect((lb.hits[0] ?? 0) - (before[0] ?? 0)).toBeGreaterThan(0);
+    expect((lb.hits[1] ?? 0) - (before[1] ?? 0)).toBeGreaterThan(0);
+    const all = (await testDb()('invoices').where('organization_id', co.id).whereNotNull('number').orderBy('number').pluck('number')) as number[];
+    expect(all).toEqual(Array.from({ length: all.length }, (_, i) => i + 1));
+  });
+
+  it('records one payment when the same webhook reaches both processes', async () => {
+    const c = new Client(lb.url);
+    expect((await c.signIn(co.emails.owner, PASSWORD)).status).toBe(200);
+    const { job } = await billableJob(co, 50_000_000);
+    const inv = await issue(c, (await draft(c, { jobId: job.id, kind: 'deposit', requestedCents: 5_000, overDepositCapOk: true, overrideReason: 'Split test' })).id);
+    const meta = { invoice_id: String(inv.id), organization_id: co.id };
+    const payload = JSON.stringify({ id: `evt_test_split${inv.id}`, object: 'event', type: 'payment_intent.succeeded', created: Math.floor(Date.now() / 1000), data: { object: { id: `pi_test_split${inv.id}`, object: 'payment_intent', amount: inv.totalCents, amount_received: inv.totalCents, currency: 'usd', status: 'succeeded', metadata: meta } } });
+    const results = await Promise.all(Array.from({ length: 10 }, (_, i) => postWebhook(new Client(apps[i % 2].url), payload)));
+    expect(results.map((r) => r.status)).toEqual(Array(10).fill(200));
+    const payments = await testDb()('payments').where({ organization_id: co.id, invoice_id: inv.id });
+    expect(payments).toHaveLength(1);
   });
 
   it('counts sign-in attempts across both processes (the limit lives in MariaDB)', async () => {
