@@ -87,6 +87,7 @@ export const BILLING_FIXTURES: Record<string, { params: (co: TestCompany) => Pro
     '/api/invoices/[id]/send': byId,
     '/api/invoices/[id]/void': { params: async (co) => ({ id: String((await issued(co)).id) }) },
     '/api/invoices/[id]/pdf': { params: async (co) => ({ id: String((await issued(co)).id) }) },
+    '/api/invoices/[id]/link': { params: async (co) => ({ id: String((await issued(co)).id) }) },
     '/api/invoices/[id]/payments': { params: async (co) => ({ id: String((await issued(co)).id) }) },
     '/api/invoices/[id]/payments/[paymentId]/refund': {
       params: async (co) => {

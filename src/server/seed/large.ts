@@ -150,7 +150,7 @@ export async function seedLargeCompany(k: Knex, o: LargeOptions): Promise<{ jobs
       organization_id: LARGE.orgId, job_id: j.id, customer_id: customerIds[number % customerIds.length], kind: 'final', status: open ? 'issued' : 'paid',
       number, number_text: `INV-${String(number).padStart(5, '0')}`, issued_on: iso(issued), due_on: iso(issued + 30 * DAY), terms: 'net_30', terms_days: 30,
       tax_mode: 'none', tax_rate_pct: 0, subtotal_cents: total, contract_billed_cents: total, total_cents: total, paid_cents: open ? 0 : total,
-      public_nonce: randomBytes(24).toString('base64url'),
+      public_nonce: randomBytes(32).toString('base64url'),
     });
   }
   await insertBatches(k, 'invoices', invoices, 1000);

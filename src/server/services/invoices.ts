@@ -283,6 +283,21 @@ export async function voidInvoice(actor: Actor, id: number, input: { reason: str
   return { invoice: await getInvoice(actor, id), replacementId: replacement };
 }
 
+/**
+ * Revokes the customer's link: a new random half makes every earlier link answer 404.
+ * The new link goes out with the next send.
+ */
+export async function revokeInvoiceLink(actor: Actor, id: number) {
+  await tx(async (trx) => {
+    const inv = await repo.findInvoice(actor.companyId, id, trx, true);
+    if (!inv) throw notFound('That invoice');
+    if (inv.status === 'draft') throw new AppError('RULE_BROKEN', 'A draft has no customer link yet.');
+    await trx('invoices').where({ organization_id: actor.companyId, id }).update({ public_nonce: newNonce(), updated_at: trx.fn.now(3) });
+    await audit(trx, actor, 'invoice', id, 'revoke_link');
+  });
+  return getInvoice(actor, id);
+}
+
 export interface InvoiceDetail extends repo.InvoiceRecord {
   displayStatus: InvoiceStatus | 'overdue';
   kindLabel: string;

@@ -84,3 +84,29 @@ describe('sessions and the web edge', () => {
     }
   });
 });
+
+describe('the customer\'s invoice link', () => {
+  it('is signed and unguessable, and the owner can revoke it', async () => {
+    const { billableJob, draft, issue } = await import('../../setup/invoices');
+    const co = await makeCompany();
+    const { job } = await billableJob(co, 1_000_000);
+    const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: 10_000, overDepositCapOk: true, overrideReason: 'Link test' })).id);
+    const token = (inv.publicUrl as string).split('/pay/')[1];
+    const [id, nonce, sig] = token.split('.');
+    expect(nonce).toHaveLength(43); // 32 random bytes
+    const anyone = new Client();
+    expect((await anyone.get(`/pay/${token}`, { accept: 'text/html' })).status).toBe(200);
+    // A forged signature, another id with the same nonce, or a guessed nonce: all 404.
+    for (const forged of [`${id}.${nonce}.${sig.slice(0, -2)}xx`, `${Number(id) + 1}.${nonce}.${sig}`, `${id}.${'A'.repeat(43)}.${sig}`]) {
+      expect((await anyone.get(`/pay/${forged}`, { accept: 'text/html' })).status, forged).toBe(404);
+    }
+    expect((await co.bookkeeper.delete(`/api/invoices/${inv.id}/link`)).status).toBe(403);
+    const revoked = await co.owner.delete(`/api/invoices/${inv.id}/link`);
+    expect(revoked.status).toBe(200);
+    expect(revoked.body.publicUrl).not.toContain(token);
+    expect((await anyone.get(`/pay/${token}`, { accept: 'text/html' })).status).toBe(404);
+    expect((await anyone.post(`/api/public/invoices/${token}/checkout`)).status).toBe(404);
+    const fresh = (revoked.body.publicUrl as string).split('/pay/')[1];
+    expect((await anyone.get(`/pay/${fresh}`, { accept: 'text/html' })).status).toBe(200);
+  });
+});

@@ -36,7 +36,7 @@ export default function InvoiceActions({ id, status, balanceCents, today, curren
     setError(null);
     const r = await api<{ replacementId?: number | null }>(path, { method, body });
     if (r.ok) {
-      if (method === 'DELETE') window.location.assign('/invoices');
+      if (label === 'discard') window.location.assign('/invoices');
       else if (r.data?.replacementId) window.location.assign(`/invoices/${r.data.replacementId}`);
       else window.location.reload();
       return;
@@ -72,6 +72,7 @@ export default function InvoiceActions({ id, status, balanceCents, today, curren
         {open && may.pay && <button type="button" className="btn-secondary" onClick={() => setPanel(panel === 'pay' ? null : 'pay')} aria-expanded={panel === 'pay'}>Record a payment</button>}
         {open && may.send && <button type="button" className="btn-danger" onClick={() => setPanel(panel === 'void' ? null : 'void')} aria-expanded={panel === 'void'}>Void</button>}
         {status === 'draft' && may.draft && <button type="button" className="btn-danger" disabled={!!busy} onClick={() => { if (window.confirm('Discard this draft?')) void act('discard', `/api/invoices/${id}`, {}, 'DELETE'); }}>Discard the draft</button>}
+        {status !== 'draft' && may.send && <button type="button" className="btn-secondary" disabled={!!busy} onClick={() => { if (window.confirm('Revoke the customer\'s link? The link already sent stops working; the next send carries a new one.')) void act('revoke', `/api/invoices/${id}/link`, {}, 'DELETE'); }}>{busy === 'revoke' ? 'Revoking…' : 'Revoke the customer\'s link'}</button>}
       </div>
       {panel === 'pay' && (
         <form onSubmit={submitPayment} noValidate className="card grid gap-3 sm:grid-cols-3" aria-label="Record a payment">
