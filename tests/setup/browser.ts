@@ -76,3 +76,22 @@ export async function signIn(context: BrowserContext, baseUrl: string, email: st
   sessions.set(`${baseUrl} ${email}`, (await context.storageState()).cookies);
   return page;
 }
+
+/**
+ * Presses Tab until the focused element's accessible text matches, as a keyboard user
+ * would; fails if it is never reached. Returns the number of presses.
+ */
+export async function tabTo(page: Page, match: RegExp, maxPresses = 250): Promise<number> {
+  for (let i = 1; i <= maxPresses; i++) {
+    await page.keyboard.press('Tab');
+    const label = await page.evaluate(() => {
+      const el = document.activeElement as HTMLElement | null;
+      if (!el) return '';
+      const id = el.getAttribute('id');
+      const byFor = id ? document.querySelector(`label[for="${id}"]`)?.textContent : '';
+      return [el.getAttribute('aria-label'), byFor, el.closest('label')?.textContent, el.textContent].filter(Boolean).join(' | ').trim();
+    });
+    if (match.test(label)) return i;
+  }
+  throw new Error(`Tab never reached an element matching ${match}`);
+}

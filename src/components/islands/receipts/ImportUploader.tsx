@@ -1,6 +1,7 @@
 import { useRef, useState, type DragEvent } from 'react';
 import Papa from 'papaparse';
 import { chooseMapping, FIELD_LABELS, FIELDS_OF, guessMapping, requiredProblems, type ImportKind, type Mapping, type MappedField } from '../../../lib/csv/mapping';
+import { sniffDelimiter } from '../../../lib/csv/tokenizer';
 import { DATE_FORMATS, DATE_FORMAT_LABELS } from '../../../lib/csv/dates';
 import type { CommitSummary, ImportDetail } from '../../../lib/csv/imports';
 import { api } from '../ui/api';
@@ -87,7 +88,17 @@ export default function ImportUploader({ kind, endpoint, pageBase, suppliers, sa
     return { mapping: mapping ?? guessMapping(kind, headers, sample), note: 'Guessed from the headers: check each column before uploading.', supplier };
   }
 
-  function read(file: File) {
+  /**
+   * The delimiter from the header line, as the server reads it: papaparse's own guess looks
+   * at data rows too and takes the comma in a European "6,45" for the separator.
+   */
+  async function headerDelimiter(file: File): Promise<string> {
+    const head = await file.slice(0, 64 * 1024).text();
+    const end = head.search(/\r|\n/);
+    return sniffDelimiter(end < 0 ? head : head.slice(0, end));
+  }
+
+  async function read(file: File) {
     const key = `${file.name}-${file.size}-${Math.random().toString(36).slice(2)}`;
     const job: Job = { key, file, step: 'reading', progress: 0, rows: 0, headers: [], sample: [], delimiter: ',', mapping: null, mappingNote: '', supplier: '', detail: null, summary: null, error: null, fields: {} };
     setJobs((js) => [...js, job]);
@@ -96,12 +107,12 @@ export default function ImportUploader({ kind, endpoint, pageBase, suppliers, sa
     let rows = 0;
     /** the file's final line break leaves one empty row behind, which is not a row */
     let trailingEmpty = false;
-    let delimiter = ',';
+    const delimiter = await headerDelimiter(file);
     Papa.parse<string[]>(file, {
+      delimiter,
       skipEmptyLines: false,
       chunkSize: 256 * 1024,
       chunk: (res) => {
-        delimiter = res.meta.delimiter || delimiter;
         for (const row of res.data) {
           if (!headers) { if (row.some((c) => c.trim())) headers = row.map((c, i) => (i === 0 ? c.replace(/^\uFEFF/, '') : c).trim()); continue; }
           rows++;
@@ -121,7 +132,7 @@ export default function ImportUploader({ kind, endpoint, pageBase, suppliers, sa
   }
 
   function addFiles(list: FileList | null) {
-    for (const f of Array.from(list ?? [])) read(f);
+    for (const f of Array.from(list ?? [])) void read(f);
   }
 
   function onDrop(e: DragEvent) {
