@@ -65,8 +65,11 @@ export const TASK_RATES: Record<LabourTask, { kinds: RateKind[]; per: string; qu
 
 /** Most a recipe takes for a waste percent (the recipe schema's limit). */
 export const WASTE_MAX_PCT = 50;
-/** A suggestion closer than this to today's value (relative) is not worth a new version. */
-export const MIN_CHANGE = 0.005;
+/**
+ * A suggestion closer than this to today's value, relative, is not worth a new version:
+ * 2 % of a labour rate, 1 % of (1 + waste), about one point of waste.
+ */
+export const MIN_CHANGE = { labour: 0.02, waste: 0.01 } as const;
 
 export interface ItemJob {
   jobId: number;
@@ -246,7 +249,7 @@ function finishItem(d: Draft, minJobs: number): CalibrationItem {
     suggested: s.rate === null ? null : d.show(s.rate), suggestedValues: s.rate === null ? null : d.values(s.rate), held,
     reason: s.rate === null ? s.reason ?? null : null, spread: s.spread,
     backtest: bt ? { n: bt.n, current: bt.current, suggested: bt.suggested, improves: bt.improves } : null,
-    applicable: Boolean(bt?.improves) && change > MIN_CHANGE && used.length >= minJobs,
+    applicable: Boolean(bt?.improves) && change >= MIN_CHANGE[d.kind] - 1e-12 && used.length >= minJobs,
     jobs: d.obs.map((o) => {
       const r = rows.get(o.jobId);
       return {

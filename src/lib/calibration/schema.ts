@@ -17,7 +17,7 @@ export const calibrationQuery = z.strictObject({
 export const applyInput = z.strictObject({
   styleId: z.number({ message: 'Choose a style.' }).int().positive(),
   /** The suggestions as the estimator saw them: the server applies them only if they still stand. */
-  items: z.array(z.strictObject({ key: z.string().regex(ITEM_KEY, 'Not a calibration item.'), suggested: z.number().finite() })).min(1, 'Choose at least one suggestion.').max(12),
+  items: z.array(z.strictObject({ key: z.string().regex(ITEM_KEY, 'Not a calibration item.'), suggested: z.number() })).min(1, 'Choose at least one suggestion.').max(12),
   reason,
   halfLifeDays: z.number().int().min(30).max(3650).nullish(),
 });
