@@ -123,6 +123,8 @@ export interface CalibrationItem {
   reason: string | null;
   spread: Spread | null;
   backtest: ItemBacktest | null;
+  /** Why there is a suggestion but no backtest of it (each job must be judged by enough others). */
+  backtestNote: string | null;
   /** The backtest improves and the change is big enough to be a new version. */
   applicable: boolean;
   jobs: ItemJob[];
@@ -249,6 +251,7 @@ function finishItem(d: Draft, minJobs: number): CalibrationItem {
     suggested: s.rate === null ? null : d.show(s.rate), suggestedValues: s.rate === null ? null : d.values(s.rate), held,
     reason: s.rate === null ? s.reason ?? null : null, spread: s.spread,
     backtest: bt ? { n: bt.n, current: bt.current, suggested: bt.suggested, improves: bt.improves } : null,
+    backtestNote: s.rate !== null && bt && bt.suggested === null ? `The backtest judges each job by a rate fitted on the others, so it needs ${minJobs + 1} jobs; there are ${used.length}.` : null,
     applicable: Boolean(bt?.improves) && change >= MIN_CHANGE[d.kind] - 1e-12 && used.length >= minJobs,
     jobs: d.obs.map((o) => {
       const r = rows.get(o.jobId);

@@ -187,6 +187,7 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
                     {it.suggested === null ? <span className="text-xs text-galv-600">{it.reason}</span> : <>{valueText(it, it.suggested)}{it.held && <span className="block text-xs text-timber-800">held at the recipe's limit</span>}</>}
                   </td>
                   <td className="num whitespace-nowrap" data-testid={`backtest-${it.key}`}>
+                    {it.backtestNote && <span className="block max-w-56 whitespace-normal text-xs text-galv-600">{it.backtestNote}</span>}
                     {it.backtest ? <>{err(it.backtest.current)} → {err(it.backtest.suggested)}{it.applicable ? <span className="pill ml-1 bg-moss-100 text-moss-700">better</span> : it.suggested !== null ? <span className="pill ml-1 bg-galv-100 text-galv-700">no gain</span> : null}</> : '—'}
                   </td>
                   <td><button type="button" className="text-sm text-timber-700 underline" aria-expanded={open === it.key} onClick={() => setOpen(open === it.key ? null : it.key)}>{open === it.key ? 'Hide jobs' : 'Jobs'}</button></td>
