@@ -31,6 +31,9 @@ const PAGES: { path: string; as: string }[] = [
   { path: '/invoices/new', as: 'bookkeeper@example.com' },
   { path: '/receivables', as: 'bookkeeper@example.com' },
   { path: '/settings/reminders', as: 'owner@example.com' },
+  { path: '/margins', as: 'owner@example.com' },
+  { path: '/wip', as: 'bookkeeper@example.com' },
+  { path: '/calibration', as: 'estimator@example.com' },
 ];
 const PUBLIC = ['/sign-in', '/sign-up', '/forgot-password'];
 

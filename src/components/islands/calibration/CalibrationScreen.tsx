@@ -1,7 +1,7 @@
 import { Fragment, useMemo, useState } from 'react';
 import { Bar } from 'react-chartjs-2';
 import { COLOURS, baseOptions, fill } from '../reports/charts';
-import { ChartCard } from '../reports/ChartCard';
+import { ChartCard, Scroll } from '../reports/ChartCard';
 import { api } from '../ui/api';
 import { formatDate, formatMoney } from '../../../lib/format';
 import { COST_GROUP_LABELS } from '../../../lib/margins/job';
@@ -79,8 +79,8 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
         chart={<Bar role="img" aria-label="Bar chart of each style's bid cost error with today's rates and with the suggested rates; the numbers are in the table beside it." data={chart} options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Mean absolute error, % of cost' }, beginAtZero: true } } })} />}
         table={
           <table className="table-dense" data-testid="backtest-table">
-            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Error today</th><th className="num">Bias today</th><th className="num">With suggestions</th><th className="num">Bias</th></tr></thead>
-            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td><button type="button" className="text-left text-timber-700 underline" onClick={() => setShown(s.styleId)}>{s.styleName}</button></td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{err(s.backtest?.current)}</td><td className="num">{bias(s.backtest?.current)}</td><td className="num">{err(s.backtest?.suggested)}</td><td className="num">{bias(s.backtest?.suggested)}</td></tr>)}</tbody>
+            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Error today</th><th className="num">Bias</th><th className="num">With suggestions</th><th className="num">Bias</th></tr></thead>
+            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td className="min-w-40"><button type="button" className="text-left text-timber-700 underline" onClick={() => setShown(s.styleId)}>{s.styleName}</button></td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{err(s.backtest?.current)}</td><td className="num">{bias(s.backtest?.current)}</td><td className="num">{err(s.backtest?.suggested)}</td><td className="num">{bias(s.backtest?.suggested)}</td></tr>)}</tbody>
           </table>
         } />
 
@@ -116,23 +116,23 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
       <section className="card" aria-labelledby="unit-title">
         <h2 id="unit-title" className="mb-1">Material unit costs: paid against the bids</h2>
         <p className="mb-2 text-sm text-galv-600">Receipts already update the price book; this shows whether the finished jobs' bids priced their materials low or high.</p>
-        <div className="max-h-96 overflow-auto [&_.num]:whitespace-nowrap">
+        <Scroll label="Material unit costs" className="max-h-96 overflow-auto">
           <table className="table-dense" data-testid="unit-costs">
             <thead><tr><th>Item</th><th className="num">Jobs</th><th className="num">Bid (median)</th><th className="num">Paid (median)</th><th className="num">Paid ÷ bid</th><th className="num">Price book today</th></tr></thead>
             <tbody>{data.unitCosts.map((u) => <tr key={u.sku}><td>{u.name} <span className="text-xs text-galv-500">{u.sku}</span></td><td className="num">{u.jobs}</td><td className="num">{formatMoney(u.bidMedianCents)}</td><td className="num">{formatMoney(u.paidMedianCents)}</td><td className="num">{ratio(u.ratio.median)}</td><td className="num">{formatMoney(u.bookCents)}</td></tr>)}</tbody>
           </table>
-        </div>
+        </Scroll>
       </section>
 
       <section className="card" aria-labelledby="applied-title">
         <h2 id="applied-title" className="mb-2">Calibrations applied</h2>
         {data.applications.length === 0 ? <p className="text-sm text-galv-600">None yet.</p> : (
-          <div className="overflow-x-auto [&_.num]:whitespace-nowrap">
+          <Scroll label="Calibrations applied">
             <table className="table-dense" data-testid="applications">
               <thead><tr><th>When</th><th>Who</th><th>Style</th><th>What</th><th>From</th><th>To</th><th className="num">Jobs</th><th className="num">Error</th><th>Why</th></tr></thead>
               <tbody>{data.applications.map((a) => <tr key={a.id}><td className="whitespace-nowrap">{formatDate(a.createdAt)}</td><td>{a.createdByName ?? '—'}</td><td>{a.styleName}</td><td>{a.itemKey}</td><td>{valuesText(a.oldValues)}</td><td>{valuesText(a.newValues)}</td><td className="num">{a.jobs}</td><td className="num whitespace-nowrap">{a.mapeBefore.toFixed(1)} → {a.mapeAfter.toFixed(1)} %</td><td>{a.reason}</td></tr>)}</tbody>
             </table>
-          </div>
+          </Scroll>
         )}
       </section>
     </div>
@@ -168,7 +168,7 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
           {applicable.length ? <> With the {applicable.length} suggestion{applicable.length === 1 ? '' : 's'} marked below: <strong>{err(bt.suggested)}</strong>, bias {bias(bt.suggested)}.</> : ' No suggestion lowers that.'}
         </p>
       )}
-      <div className="overflow-x-auto [&_.num]:whitespace-nowrap">
+      <Scroll label={`${s.styleName}: rates against the finished jobs`}>
         <table className="table-dense" data-testid="calibration-items">
           <thead><tr>{mayApply && <th><span className="sr-only">Apply</span></th>}<th>Rate</th><th className="num">Jobs</th><th className="num">Bid</th><th className="num">Actual</th><th className="num">Actual ÷ bid</th><th className="num">Today</th><th className="num">Suggested</th><th className="num">Error: today → suggested</th><th><span className="sr-only">Jobs behind it</span></th></tr></thead>
           <tbody>
@@ -201,7 +201,7 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
             ))}
           </tbody>
         </table>
-      </div>
+      </Scroll>
       <p className="mt-1 text-xs text-galv-600">Bid, actual and actual ÷ bid are medians over the jobs, with the middle half of the jobs' ratios in brackets. The error is the bids' mean absolute error of cost, judged leave one out.</p>
       {mayApply && applicable.length > 0 && (
         <form className="mt-3 flex flex-wrap items-end gap-3" onSubmit={(e) => {
@@ -252,32 +252,34 @@ function JobsBehind({ item, mayApply, excl, onExclude, onInclude }: {
 }) {
   const [form, setForm] = useState<{ jobId: number; scope: string; reason: string; error: string | null } | null>(null);
   return (
-    <div className="overflow-x-auto [&_.num]:whitespace-nowrap">
-      <table className="table-dense" aria-label={`Jobs behind ${item.label.toLowerCase()}`}>
-        <thead><tr><th>Job</th><th className="num">Bid</th><th className="num">Actual</th><th className="num">Actual ÷ bid</th><th className="num">Fitted without it</th><th className="num">Cost: actual</th><th className="num">At today's rate</th><th className="num">Suggested</th><th></th></tr></thead>
-        <tbody>
-          {item.jobs.map((j) => {
-            const ex = excl(j.jobId, item.key);
-            return (
-              <tr key={j.jobId} className={ex ? 'text-galv-500' : ''}>
-                <td><a href={`/jobs/${j.jobId}`}>{j.code}</a>{ex && <span className="block text-xs">left out{ex.scope === 'job' ? ' (whole job)' : ''}: {ex.reason}</span>}</td>
-                <td className="num">{valueText(item, j.bid)}</td>
-                <td className="num">{valueText(item, j.actual)}</td>
-                <td className="num">{ratio(j.ratio)}</td>
-                <td className="num">{valueText(item, j.fittedRate)}</td>
-                <td className="num">{formatMoney(j.actualCostCents)}</td>
-                <td className="num">{formatMoney(j.currentCostCents)}</td>
-                <td className="num">{formatMoney(j.suggestedCostCents)}</td>
-                <td>
-                  {mayApply && (ex
-                    ? <button type="button" className="text-sm text-timber-700 underline" onClick={() => void onInclude(ex.id)}>Count again</button>
-                    : <button type="button" className="text-sm text-timber-700 underline" onClick={() => setForm({ jobId: j.jobId, scope: item.key, reason: '', error: null })}>Leave out</button>)}
-                </td>
-              </tr>
-            );
-          })}
-        </tbody>
-      </table>
+    <div>
+      <Scroll label={`Jobs behind ${item.label.toLowerCase()}`}>
+        <table className="table-dense" aria-label={`Jobs behind ${item.label.toLowerCase()}`}>
+          <thead><tr><th>Job</th><th className="num">Bid</th><th className="num">Actual</th><th className="num">Actual ÷ bid</th><th className="num">Fitted without it</th><th className="num">Cost: actual</th><th className="num">At today's rate</th><th className="num">Suggested</th><th></th></tr></thead>
+          <tbody>
+            {item.jobs.map((j) => {
+              const ex = excl(j.jobId, item.key);
+              return (
+                <tr key={j.jobId} className={ex ? 'text-galv-500' : ''}>
+                  <td><a href={`/jobs/${j.jobId}`}>{j.code}</a>{ex && <span className="block text-xs">left out{ex.scope === 'job' ? ' (whole job)' : ''}: {ex.reason}</span>}</td>
+                  <td className="num">{valueText(item, j.bid)}</td>
+                  <td className="num">{valueText(item, j.actual)}</td>
+                  <td className="num">{ratio(j.ratio)}</td>
+                  <td className="num">{valueText(item, j.fittedRate)}</td>
+                  <td className="num">{formatMoney(j.actualCostCents)}</td>
+                  <td className="num">{formatMoney(j.currentCostCents)}</td>
+                  <td className="num">{formatMoney(j.suggestedCostCents)}</td>
+                  <td>
+                    {mayApply && (ex
+                      ? <button type="button" className="text-sm text-timber-700 underline" onClick={() => void onInclude(ex.id)}>Count again</button>
+                      : <button type="button" className="text-sm text-timber-700 underline" onClick={() => setForm({ jobId: j.jobId, scope: item.key, reason: '', error: null })}>Leave out</button>)}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </Scroll>
       {form && (
         <form className="mt-2 flex flex-wrap items-end gap-2" onSubmit={async (e) => {
           e.preventDefault();

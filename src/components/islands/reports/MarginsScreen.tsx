@@ -2,7 +2,7 @@ import { useMemo, useState } from 'react';
 import { Bar, Line, Scatter } from 'react-chartjs-2';
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { COLOURS, POINT_STYLES, baseOptions, dollars, fill, money0 } from './charts';
-import { ChartCard } from './ChartCard';
+import { ChartCard, Scroll } from './ChartCard';
 import { FilterBar, useReport, type Filter, type FilterOptions } from './filters';
 import { SortableTable } from '../invoices/SortableTable';
 import { formatDate, formatMoney, formatPct, type CurrencyCode } from '../../../lib/format';
@@ -111,7 +111,7 @@ export default function MarginsScreen({ initial }: { initial: MarginData }) {
           <h2 id="by-style-title">By fence style</h2>
           <a className="btn-secondary" href={csv('/api/reports/margin-by-style')} download>Export CSV</a>
         </div>
-        <div className="overflow-x-auto [&_.num]:whitespace-nowrap">
+        <Scroll label="Margins by fence style">
           <table className="table-dense" data-testid="style-table">
             <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Linear ft</th><th className="num">Revenue</th><th className="num">Cost</th><th className="num">Gross profit</th><th className="num">Margin</th><th className="num">Bids planned</th><th className="num">Profit per ft</th><th className="num">Median job margin</th></tr></thead>
             <tbody>
@@ -132,7 +132,7 @@ export default function MarginsScreen({ initial }: { initial: MarginData }) {
               {styles.length === 0 && <tr><td colSpan={10} className="py-6 text-center text-galv-500">No jobs match these filters.</td></tr>}
             </tbody>
           </table>
-        </div>
+        </Scroll>
         <p className="mt-2 text-xs text-galv-600">Revenue is the contract with approved change orders; cost is every cost line, crew hour and rental on the job. Per-foot figures use the jobs with an accepted bid's length ({t.jobsWithFeet} of {t.jobs}). The median job margin is shown with the middle half of the jobs' margins (lower to upper quartile) in brackets.</p>
       </section>
 
@@ -178,10 +178,10 @@ export default function MarginsScreen({ initial }: { initial: MarginData }) {
           <h2 id="jobs-title">Jobs</h2>
           <a className="btn-secondary" href={csv('/api/reports/jobs')} download>Export CSV</a>
         </div>
-        <div className="overflow-x-auto [&_.num]:whitespace-nowrap" data-testid="jobs-table">
+        <Scroll label="Jobs" testId="jobs-table">
           <SortableTable table={table} loading={loading} empty="No jobs match these filters."
             footer={<tfoot><tr className="font-semibold"><td colSpan={4} className="px-3 py-2">{t.jobs} jobs</td><td className="px-3 py-2 text-right">{m(t.revenueCents)}</td><td className="px-3 py-2 text-right">{m(data.jobs.reduce((a, j) => a + j.billedCents, 0))}</td><td className="px-3 py-2 text-right">{m(data.jobs.reduce((a, j) => a + j.collectedCents, 0))}</td><td className="px-3 py-2 text-right">{m(t.costCents)}</td><td className="px-3 py-2 text-right">{m(t.grossProfitCents)}</td><td className="px-3 py-2 text-right">{formatPct(t.marginPct)}</td><td className="px-3 py-2 text-right">{formatPct(t.estimatedMarginPct)}</td><td></td></tr></tfoot>} />
-        </div>
+        </Scroll>
       </section>
     </div>
   );

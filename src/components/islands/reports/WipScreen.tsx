@@ -1,6 +1,7 @@
 import { useMemo, useState } from 'react';
 import { createColumnHelper, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { FilterBar, useReport, type Filter, type FilterOptions } from './filters';
+import { Scroll } from './ChartCard';
 import { SortableTable } from '../invoices/SortableTable';
 import { formatMoney, formatPct, type CurrencyCode } from '../../../lib/format';
 import type { WipJob, WipReport } from '../../../lib/margins/wip';
@@ -69,10 +70,10 @@ export default function WipScreen({ initial }: { initial: WipData }) {
         <li className="card p-3"><span className="block text-xs text-galv-500">Net</span><span className="text-lg font-semibold" data-testid="wip-net">{t.netOverUnderCents === 0 ? 'even' : `${m(Math.abs(t.netOverUnderCents))} ${t.netOverUnderCents > 0 ? 'over' : 'under'}`}</span>
           <span className="block text-xs text-galv-600">{t.atRisk} job{t.atRisk === 1 ? '' : 's'} heading below the {data.targetMarginPct} % target</span></li>
       </ul>
-      <div className="overflow-x-auto rounded-lg border border-galv-200 bg-white [&_.num]:whitespace-nowrap" data-testid="wip-table">
+      <Scroll label="Open jobs" className="overflow-x-auto rounded-lg border border-galv-200 bg-white" testId="wip-table">
         <SortableTable table={table} loading={loading} empty="No open jobs match these filters."
           footer={<tfoot><tr className="font-semibold"><td colSpan={2} className="px-3 py-2">Total</td><td className="px-3 py-2 text-right">{m(t.contractCents)}</td><td className="px-3 py-2 text-right">{m(t.estimatedCostCents)}</td><td className="px-3 py-2 text-right">{m(t.costToDateCents)}</td><td></td><td className="px-3 py-2 text-right">{m(t.earnedCents)}</td><td className="px-3 py-2 text-right">{m(t.billedToDateCents)}</td><td className="px-3 py-2 text-right whitespace-nowrap">{t.netOverUnderCents === 0 ? 'even' : `${m(Math.abs(t.netOverUnderCents))} ${t.netOverUnderCents > 0 ? 'over' : 'under'}`}</td><td></td></tr></tfoot>} />
-      </div>
+      </Scroll>
     </div>
   );
 }

@@ -74,11 +74,11 @@ export function FilterBar({ filter, setFilter, options, statuses, defaultStatus,
   const changed = filter.from || filter.to || filter.style.length || filter.estimator.length || filter.status.join() !== defaultStatus.join();
   return (
     <section aria-label="Filters" className="card space-y-2" data-testid="report-filters">
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-6">
+      <div className="grid grid-cols-2 gap-3 lg:grid-cols-6">
         <label><span className="label">From</span><input className="input" type="date" value={filter.from ?? ''} onChange={(e) => setFilter({ ...filter, from: e.target.value || undefined })} /></label>
         <label><span className="label">To</span><input className="input" type="date" value={filter.to ?? ''} onChange={(e) => setFilter({ ...filter, to: e.target.value || undefined })} /></label>
-        <div className="lg:col-span-2"><span className="label">Fence style</span><Choices legend="Styles" options={options.styles} chosen={filter.style} onChange={(style) => setFilter({ ...filter, style })} /></div>
-        <div className="lg:col-span-2"><span className="label">Estimator</span><Choices legend="Estimators" options={options.estimators} chosen={filter.estimator} onChange={(estimator) => setFilter({ ...filter, estimator })} /></div>
+        <div className="col-span-2"><span className="label">Fence style</span><Choices legend="Styles" options={options.styles} chosen={filter.style} onChange={(style) => setFilter({ ...filter, style })} /></div>
+        <div className="col-span-2"><span className="label">Estimator</span><Choices legend="Estimators" options={options.estimators} chosen={filter.estimator} onChange={(estimator) => setFilter({ ...filter, estimator })} /></div>
       </div>
       <div className="flex flex-wrap items-center gap-x-4 gap-y-2">
         <fieldset className="flex flex-wrap items-center gap-3">
