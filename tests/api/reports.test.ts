@@ -53,10 +53,12 @@ describe('margins by style', () => {
   it('equals an independent SQL aggregate over the same rows, job by job and style by style', async () => {
     const r = await co.owner.get('/api/reports/margin-by-style');
     expect(r.status).toBe(200);
+    expect(r.body.jobs).toBeUndefined();
+    const list = await co.owner.get('/api/reports/jobs');
     const sql = await sqlJobs(co.id, ['completed', 'closed']);
-    expect(r.body.jobs).toHaveLength(5);
+    expect(list.body.jobs).toHaveLength(5);
     for (const s of sql) {
-      const j = r.body.jobs.find((x: { jobId: number }) => x.jobId === s.id);
+      const j = list.body.jobs.find((x: { jobId: number }) => x.jobId === s.id);
       expect(j, `job ${s.id}`).toMatchObject({ contractCents: s.revenue, costToDateCents: s.cost, estimatedCostCents: s.est, billedCents: s.billed, collectedCents: s.collected, grossProfitCents: s.revenue - s.cost, marginPct: pct(s.revenue - s.cost, s.revenue), linearFt: s.ft });
     }
     for (const id of [wood, chain]) {
@@ -87,8 +89,9 @@ describe('margins by style', () => {
 
   it('filters by style, estimator, status and date range, the same on every endpoint', async () => {
     const byStyle = await co.owner.get(`/api/reports/margin-by-style?style=${chain}`);
-    expect(byStyle.body.jobs.map((j: { styleId: number }) => j.styleId)).toEqual([chain, chain]);
     expect(byStyle.body.styles).toHaveLength(1);
+    expect(byStyle.body.total.jobs).toBe(2);
+    expect((await co.owner.get(`/api/reports/jobs?style=${chain}`)).body.jobs.map((j: { styleId: number }) => j.styleId)).toEqual([chain, chain]);
     const byEst = await co.owner.get(`/api/reports/jobs?estimator=${co.userIds.estimator}`);
     expect(byEst.body.jobs.map((j: { jobId: number }) => j.jobId).sort()).toEqual([jobs[0].jobId, jobs[3].jobId].sort());
     const range = await co.owner.get('/api/reports/jobs?from=2026-03-01&to=2026-03-31');
@@ -126,11 +129,11 @@ describe('margins by style', () => {
     const jcsv = parseCsv((await co.owner.get('/api/reports/jobs?format=csv')).text).map((r) => r.cells);
     const total = jcsv.find((r) => r[0] === 'Total')!;
     expect(total[jcsv[0].indexOf('Contract')]).toBe(centsText(json.total.revenueCents));
-    expect(jcsv).toHaveLength(json.jobs.length + 2);
+    expect(jcsv).toHaveLength(json.total.jobs + 2);
   });
 
   it('keeps each company to its own jobs', async () => {
-    const r = await other.owner.get('/api/reports/margin-by-style');
+    const r = await other.owner.get('/api/reports/jobs');
     expect(r.body.jobs).toHaveLength(1);
     expect(r.body.jobs[0].code).not.toBe(undefined);
     const mine = (await co.owner.get('/api/reports/jobs')).body.jobs.map((j: { jobId: number }) => j.jobId);

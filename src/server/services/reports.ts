@@ -26,11 +26,16 @@ const stripFormat = <T extends { format?: unknown }>(f: T) => {
   return rest;
 };
 
-/** Margins by style with everything its charts draw: per style, by month, and each job. */
-export async function marginReport(actor: Actor, filter: ReportFilter) {
+/** The margins screen's first view: the style and month figures and the jobs behind them, from one read. */
+export async function marginScreen(actor: Actor, filter: ReportFilter) {
   const [ctx, options, jobs] = await Promise.all([context(actor.companyId), filterOptions(actor.companyId), margins(actor, filter)]);
-  const byStyle = marginByStyle(jobs);
-  return { ...ctx, filter: stripFormat(filter), options, ...byStyle, months: marginByMonth(jobs), jobs };
+  return { ...ctx, filter: stripFormat(filter), options, ...marginByStyle(jobs), months: marginByMonth(jobs), jobs };
+}
+
+/** Margins by style and by month: the job rows are summed, not sent (they are the jobs report). */
+export async function marginReport(actor: Actor, filter: ReportFilter) {
+  const { jobs: _jobs, ...rest } = await marginScreen(actor, filter);
+  return rest;
 }
 
 export async function jobsReport(actor: Actor, filter: ReportFilter) {
@@ -54,7 +59,7 @@ export async function reportCsv(actor: Actor, report: CsvReport, filter: ReportF
     csv = wipCsv(w);
     today = w.today;
   } else {
-    const r = await marginReport(actor, filter as ReportFilter);
+    const r = await marginScreen(actor, filter as ReportFilter);
     today = r.today;
     csv = report === 'margin-by-style' ? styleCsv(r.styles, r.total) : report === 'margin-by-month' ? monthCsv(r.months) : jobsCsv(r.jobs, r.total);
   }

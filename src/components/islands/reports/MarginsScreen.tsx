@@ -31,7 +31,7 @@ const col = createColumnHelper<JobMargin>();
 
 /** Margins by fence style: the table, four charts each with its numbers, and the jobs behind them. */
 export default function MarginsScreen({ initial }: { initial: MarginData }) {
-  const { filter, setFilter, data, error, loading } = useReport<MarginData>('/api/reports/margin-by-style', initial.filter, initial);
+  const { filter, setFilter, data, error, loading } = useReport<MarginData>(['/api/reports/jobs', '/api/reports/margin-by-style'], initial.filter, initial);
   const m = (c: number | null) => formatMoney(c, data.currency);
   const csv = (path: string) => `${path}?${filterParams(filter, { format: 'csv' })}`;
   const styles = data.styles;

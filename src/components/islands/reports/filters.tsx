@@ -15,10 +15,11 @@ export interface FilterOptions {
 }
 
 /**
- * The report's data for the filter on screen: refetched when the filter changes, the
- * address bar kept in step so a reload or a shared link shows the same view.
+ * The report's data for the filter on screen: refetched when the filter changes (from one
+ * endpoint or several, their answers merged), the address bar kept in step so a reload or a
+ * shared link shows the same view.
  */
-export function useReport<T>(path: string, initialFilter: Filter, initial: T) {
+export function useReport<T>(paths: string | string[], initialFilter: Filter, initial: T) {
   const [filter, setFilter] = useState<Filter>(initialFilter);
   const [data, setData] = useState<T>(initial);
   const [error, setError] = useState<string | null>(null);
@@ -30,8 +31,10 @@ export function useReport<T>(path: string, initialFilter: Filter, initial: T) {
     window.history.replaceState(null, '', `${window.location.pathname}${query ? `?${query}` : ''}`);
     const ctrl = new AbortController();
     setLoading(true);
-    api<T>(`${path}?${query}`, { signal: ctrl.signal }).then((r) => {
-      if (r.ok) { setData(r.data); setError(null); } else setError(r.error.fields ? Object.values(r.error.fields).join(' ') : r.error.message);
+    Promise.all((Array.isArray(paths) ? paths : [paths]).map((p) => api<Partial<T>>(`${p}?${query}`, { signal: ctrl.signal }))).then((rs) => {
+      const bad = rs.find((r) => !r.ok);
+      if (bad && !bad.ok) setError(bad.error.fields ? Object.values(bad.error.fields).join(' ') : bad.error.message);
+      else { setData(Object.assign({}, ...rs.map((r) => (r.ok ? r.data : {}))) as T); setError(null); }
       setLoading(false);
     }).catch(() => {});
     return () => ctrl.abort();
