@@ -97,13 +97,17 @@ export interface ItemBacktest {
   improves: boolean;
 }
 
-export interface CalibrationItem {
+/** What an item is: its key, words and the rates (or waste group) behind it. */
+interface ItemIdentity {
   key: string;
   kind: 'labour' | 'waste';
   label: string;
   unit: string;
   rateKinds: RateKind[];
   wasteKey: WasteKey | null;
+}
+
+export interface CalibrationItem extends ItemIdentity {
   /** Today's value in the item's unit: crew-h per unit, or a waste percent. */
   current: number;
   /** Today's value of each rate or waste key behind it. */
@@ -156,13 +160,7 @@ const spreadOf = (xs: number[]) => (xs.length ? spread(xs) : null);
 const medianOf = (xs: number[]) => (xs.length ? median(xs) : null);
 const round = (x: number, d: number) => (Math.sign(x) * Math.round(Math.abs(x) * 10 ** d)) / 10 ** d;
 
-interface Draft {
-  key: string;
-  kind: 'labour' | 'waste';
-  label: string;
-  unit: string;
-  rateKinds: RateKind[];
-  wasteKey: WasteKey | null;
+interface Draft extends ItemIdentity {
   /** current in the lib's rate unit (crew-h per unit, or 1 + waste) */
   currentRate: number;
   currentValues: Record<string, number>;

@@ -57,26 +57,15 @@ export function centsPerFoot(cents: number, feet: number): number | null {
   return Math.sign(v) * Math.round(Math.abs(v));
 }
 
-export interface JobMargin {
-  jobId: number;
-  code: string;
-  title: string;
-  status: JobStatus;
-  customerName: string;
-  styleId: number | null;
-  styleName: string | null;
-  estimatorName: string | null;
-  reportDate: string | null;
+type Carried = 'jobId' | 'code' | 'title' | 'status' | 'customerName' | 'styleId' | 'styleName' | 'estimatorName' | 'reportDate' | 'approvedChangeOrdersCents' | 'estimated' | 'actual' | 'billedCents' | 'collectedCents' | 'linearFt';
+
+export interface JobMargin extends Pick<JobFigures, Carried> {
   /** True for completed and closed jobs: the figures are final. */
   final: boolean;
+  /** Contract to date: the accepted price with approved change orders. */
   contractCents: number;
-  approvedChangeOrdersCents: number;
-  billedCents: number;
-  collectedCents: number;
   estimatedCostCents: number;
   costToDateCents: number;
-  estimated: ByGroup;
-  actual: ByGroup;
   grossProfitCents: number;
   /** Gross profit ÷ contract, percent (one decimal); null without a contract. */
   marginPct: number | null;
@@ -84,7 +73,6 @@ export interface JobMargin {
   estimatedMarginPct: number | null;
   /** Actual − estimated margin, percentage points (one decimal). */
   marginDeltaPts: number | null;
-  linearFt: number | null;
   grossProfitPerFtCents: number | null;
 }
 
