@@ -182,6 +182,7 @@ export default function MarginsScreen({ initial }: { initial: MarginData }) {
           <SortableTable table={table} loading={loading} empty="No jobs match these filters."
             footer={<tfoot><tr className="font-semibold"><td colSpan={4} className="px-3 py-2">{t.jobs} jobs</td><td className="px-3 py-2 text-right">{m(t.revenueCents)}</td><td className="px-3 py-2 text-right">{m(data.jobs.reduce((a, j) => a + j.billedCents, 0))}</td><td className="px-3 py-2 text-right">{m(data.jobs.reduce((a, j) => a + j.collectedCents, 0))}</td><td className="px-3 py-2 text-right">{m(t.costCents)}</td><td className="px-3 py-2 text-right">{m(t.grossProfitCents)}</td><td className="px-3 py-2 text-right">{formatPct(t.marginPct)}</td><td className="px-3 py-2 text-right">{formatPct(t.estimatedMarginPct)}</td><td></td></tr></tfoot>} />
         </Scroll>
+        <p className="mt-2 text-xs text-galv-600">Billed is what issued invoices billed against the contract, before tax; collected is what customers paid on them, tax included.</p>
       </section>
     </div>
   );
