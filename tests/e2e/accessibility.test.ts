@@ -37,6 +37,9 @@ const PAGES: { path: string; as: string }[] = [
   { path: '/workers', as: 'bookkeeper@example.com' },
   { path: '/time', as: 'crew@example.com' },
   { path: '/time/rentals', as: 'crew@example.com' },
+  { path: '/margins', as: 'owner@example.com' },
+  { path: '/wip', as: 'bookkeeper@example.com' },
+  { path: '/calibration', as: 'estimator@example.com' },
 ];
 const PUBLIC = ['/sign-in', '/sign-up', '/forgot-password'];
 

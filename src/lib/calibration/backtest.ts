@@ -26,6 +26,12 @@ export interface RateObservation {
   actualCostCents: number;
   /** The rate the job was bid with. */
   bidRate: number;
+  /**
+   * Today's rate, when it differs from the one the job was bid with: the backtest's
+   * "current" estimate re-prices this work at it, so the comparison is today's rates
+   * against the suggestion, not the rates of the day each job was bid.
+   */
+  currentRate?: number;
 }
 
 export interface Suggestion {
@@ -39,6 +45,20 @@ export interface Suggestion {
 export interface SuggestOptions {
   minJobs?: number;
   recencyHalfLifeDays?: number;
+  /** The range a rate may take (a recipe's limits): a suggestion outside is held at the edge. */
+  bounds?: { min: number; max: number };
+  /** Rounding step "suggested rate": half away from zero to this many decimals, as stored. */
+  decimals?: number;
+}
+
+function settle(rate: number, opts: SuggestOptions): number {
+  let r = rate;
+  if (opts.bounds) r = Math.min(opts.bounds.max, Math.max(opts.bounds.min, r));
+  if (opts.decimals !== undefined) {
+    const f = 10 ** opts.decimals;
+    r = (Math.sign(r) * Math.round(Math.abs(r) * f)) / f;
+  }
+  return r;
 }
 
 export const MIN_JOBS = 4;
@@ -57,8 +77,10 @@ export function suggestRate(obs: readonly RateObservation[], opts: SuggestOption
   const rate = opts.recencyHalfLifeDays
     ? weightedMedian(usable.map((o, i) => ({ value: rates[i], weight: 0.5 ** (o.ageDays / opts.recencyHalfLifeDays!) })))
     : median(rates);
-  return { rate, n: usable.length, spread: spread(rates) };
+  return { rate: settle(rate, opts), n: usable.length, spread: spread(rates) };
 }
+
+const roundAway = (x: number) => Math.sign(x) * Math.round(Math.abs(x));
 
 export interface ErrorSummary {
   /** Mean absolute percentage error of the estimated cost against the actual, in percent. */
@@ -85,7 +107,7 @@ export interface Backtest {
   improves: boolean;
 }
 
-function summarise(pairs: { estimate: number; actual: number }[]): ErrorSummary {
+export function summarise(pairs: { estimate: number; actual: number }[]): ErrorSummary {
   const errors = pairs.filter((p) => p.actual > 0).map((p) => ((p.estimate - p.actual) / p.actual) * 100);
   if (errors.length === 0) return { mape: 0, bias: 0 };
   return {
@@ -97,14 +119,17 @@ function summarise(pairs: { estimate: number; actual: number }[]): ErrorSummary 
 /**
  * Leave-one-out: each job is judged by a rate fitted on the other jobs only, so the backtest
  * cannot flatter the suggestion with the job it is judging. A job's re-estimated cost is its
- * bid cost with this work's hours re-priced: (fitted rate − bid rate) × quantity × hour cost.
+ * bid cost with this work's hours re-priced: (fitted rate − bid rate) × quantity × hour cost,
+ * rounded half away from zero to the cent (Math.round would send −0.5 up, not away).
  */
 export function backtest(obs: readonly RateObservation[], opts: SuggestOptions = {}): Backtest {
   const rows: BacktestRow[] = obs.map((o, i) => {
     const others = obs.filter((_, j) => j !== i);
     const fit = suggestRate(others, opts).rate;
-    const suggestedCost = fit === null ? null : Math.round(o.estimatedCostCents + (fit - o.bidRate) * o.quantity * o.hourCostCents);
-    return { jobId: o.jobId, actualCostCents: o.actualCostCents, currentCostCents: o.estimatedCostCents, suggestedCostCents: suggestedCost, fittedRate: fit };
+    const reprice = (rate: number) => o.estimatedCostCents + roundAway((rate - o.bidRate) * o.quantity * o.hourCostCents);
+    const suggestedCost = fit === null ? null : reprice(fit);
+    const currentCost = o.currentRate === undefined ? o.estimatedCostCents : reprice(o.currentRate);
+    return { jobId: o.jobId, actualCostCents: o.actualCostCents, currentCostCents: currentCost, suggestedCostCents: suggestedCost, fittedRate: fit };
   });
   const current = summarise(rows.map((r) => ({ estimate: r.currentCostCents, actual: r.actualCostCents })));
   const fitted = rows.filter((r) => r.suggestedCostCents !== null);

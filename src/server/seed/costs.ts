@@ -33,7 +33,7 @@ type SupplierKey = keyof typeof COST_SUPPLIERS;
 
 /** The style whose crews run over on hours, and how far (the calibration issue finds it). */
 export const LABOUR_OVERRUN = { style: 'Wood privacy 6 ft', factor: 1.25 };
-/** Chain-link jobs buy this many times the concrete their material estimate allows. */
+/** Chain-link jobs buy this many times the concrete of their takeoff (before waste). */
 export const CONCRETE_WASTE = { style: 'Chain link 4 ft', factor: 1.55 };
 
 interface Item {
@@ -210,7 +210,11 @@ interface DemoJob {
   estimates: Record<string, number>;
   /** Person-hours by time task that the accepted bid priced (empty without a bid). */
   bidHours: Partial<Record<TimeTask, number>>;
+  /** The accepted bid's buy list (empty without a bid). */
+  buyList: BuyLine[];
 }
+
+interface BuyLine { sku: string; name: string; unit: string; group: string; takeoffQty: number; buyQty: number; unitCostCents: number; supplier: string | null }
 
 /** The bid's labour tasks as the crews log them. */
 const BID_TASK: Record<string, TimeTask> = { posts: 'dig_set_posts', rails_infill: 'rails_infill', gates: 'gates', setup: 'cleanup' };
@@ -234,6 +238,21 @@ async function demoJobs(k: Knex, today: string): Promise<DemoJob[]> {
     h[task] = (h[task] ?? 0) + Number(l.man_hours);
     hoursByJob.set(Number(l.job_id), h);
   }
+  const lines = (await k('bids as b')
+    .join('bid_lines as l', 'l.bid_id', 'b.id')
+    .leftJoin('price_book_items as p', function () { this.on('p.sku', 'l.sku').andOn('p.organization_id', 'b.organization_id'); })
+    .leftJoin('suppliers as s', 's.id', 'p.supplier_id')
+    .where({ 'b.organization_id': DEMO.orgId, 'b.status': 'accepted', 'l.kind': 'material' })
+    .orderBy('l.sort')
+    .select('b.job_id', 'b.takeoff', 'l.sku', 'l.description', 'l.unit', 'l.takeoff_qty', 'l.buy_qty', 'l.unit_cost_cents', 's.name as supplier')) as Record<string, any>[];
+  const buyByJob = new Map<number, BuyLine[]>();
+  for (const l of lines) {
+    const takeoff = typeof l.takeoff === 'string' ? JSON.parse(l.takeoff) : l.takeoff;
+    const group = (takeoff.materials as { sku: string; group: string }[]).find((m) => m.sku === l.sku)?.group ?? 'hardware';
+    const list = buyByJob.get(Number(l.job_id)) ?? [];
+    list.push({ sku: l.sku, name: l.description, unit: l.unit, group, takeoffQty: Number(l.takeoff_qty), buyQty: Number(l.buy_qty), unitCostCents: Number(l.unit_cost_cents), supplier: l.supplier });
+    buyByJob.set(Number(l.job_id), list);
+  }
   const est = (await k('job_estimates').where('organization_id', DEMO.orgId).groupBy('job_id', 'category').select('job_id', 'category', k.raw('SUM(amount_cents) AS cents'))) as { job_id: number; category: string; cents: string }[];
   const byJob = new Map<number, Record<string, number>>();
   for (const e of est) byJob.set(Number(e.job_id), { ...(byJob.get(Number(e.job_id)) ?? {}), [e.category]: Number(e.cents) });
@@ -252,6 +271,7 @@ async function demoJobs(k: Knex, today: string): Promise<DemoJob[]> {
       commercial: Boolean(r.commercial),
       estimates: byJob.get(Number(r.id)) ?? {},
       bidHours: hoursByJob.get(Number(r.id)) ?? {},
+      buyList: buyByJob.get(Number(r.id)) ?? [],
     };
   });
 }
@@ -323,26 +343,36 @@ export async function seedDemoCosts(knex: Knex, today = new Date()): Promise<voi
     // yet. A won job not yet started has only its first delivery.
     const progress = done ? 1 : job.status === 'won' ? 0 : 0.35 + r.next() * 0.4;
 
-    // Materials, in deliveries, around the job's material estimate.
-    const materialTarget = (job.estimates.material ?? 0) * (1 + (r.next() - 0.5) * 0.08);
-    const bill = BILL[job.kind] ?? BILL.wood_privacy;
+    // Materials, in deliveries. With an accepted bid the yard fills the bid's own buy list
+    // (a few units either way), so bought against takeoff compares like with like; one
+    // style's crews pour far more concrete than the takeoff. Without a bid, shares of the estimate.
     const refStyle = r.pick(['code', 'code', 'code', 'po', 'bare']);
     const ref = (supplier: SupplierKey) => {
       if (supplier === 'kettle') return refStyle === 'code' ? job.code : `PO ${job.number}`;
       return refStyle === 'po' ? `PO ${job.number}` : refStyle === 'bare' && supplier === 'cedar' ? String(job.number) : job.code;
     };
     const deliveries: Record<SupplierKey, ReceiptLine[]>[] = [{ cedar: [], iron: [], kettle: [] }, { cedar: [], iron: [], kettle: [] }];
-    for (const [key, share] of bill) {
-      const item = ITEMS[key];
-      const fromBook = book.get(key);
-      const price = Math.round((fromBook?.price ?? item.price) * (1 + (r.next() - 0.3) * 0.06));
-      let qty = Math.max(1, Math.round((materialTarget * share) / price));
-      if (key === 'concrete' && job.style === CONCRETE_WASTE.style) qty = Math.round(qty * CONCRETE_WASTE.factor);
-      const first = FIRST_DELIVERY.has(key);
-      if (!first && progress < 0.6) continue;
-      deliveries[first ? 0 : 1][item.supplier].push({
-        date: '', receipt: '', line: 0, sku: fromBook?.sku ?? item.sku, description: item.name, qty, unit: item.unit, price, amount: qty * price, tax: 0, jobRef: '', memo: '',
-      });
+    const deliver = (first: boolean, supplier: SupplierKey, l: { sku: string; description: string; unit: string; qty: number; price: number }) => {
+      if (!first && progress < 0.6) return;
+      deliveries[first ? 0 : 1][supplier].push({ date: '', receipt: '', line: 0, ...l, amount: l.qty * l.price, tax: 0, jobRef: '', memo: '' });
+    };
+    if (job.buyList.length) {
+      for (const b of job.buyList) {
+        const price = Math.round(b.unitCostCents * (1 + (r.next() - 0.3) * 0.06));
+        const heavy = b.group === 'concrete' && job.style === CONCRETE_WASTE.style;
+        const qty = Math.max(1, Math.round(heavy ? b.takeoffQty * CONCRETE_WASTE.factor * (1 + (r.next() - 0.5) * 0.06) : b.buyQty * (1 + (r.next() - 0.5) * 0.06)));
+        const supplier: SupplierKey = b.group === 'concrete' || b.group === 'gravel' ? 'kettle' : b.supplier === COST_SUPPLIERS.cedar ? 'cedar' : 'iron';
+        deliver(['posts', 'concrete', 'gravel'].includes(b.group), supplier, { sku: b.sku, description: b.name, unit: b.unit, qty, price });
+      }
+    } else {
+      const materialTarget = (job.estimates.material ?? 0) * (1 + (r.next() - 0.5) * 0.08);
+      for (const [key, share] of BILL[job.kind] ?? BILL.wood_privacy) {
+        const item = ITEMS[key];
+        const fromBook = book.get(key);
+        const price = Math.round((fromBook?.price ?? item.price) * (1 + (r.next() - 0.3) * 0.06));
+        const qty = Math.max(1, Math.round((materialTarget * share) / price));
+        deliver(FIRST_DELIVERY.has(key), item.supplier, { sku: fromBook?.sku ?? item.sku, description: item.name, unit: item.unit, qty, price });
+      }
     }
     deliveries.forEach((d, i) => {
       const date = workday(addDays(job.start, i === 0 ? -2 : 2));
@@ -359,7 +389,7 @@ export async function seedDemoCosts(knex: Knex, today = new Date()): Promise<voi
     });
     // Finished jobs send some leftovers back.
     if (done && r.chance(0.3)) {
-      const back = deliveries[1].cedar.find((l) => l.sku === (book.get('picket')?.sku ?? ITEMS.picket.sku)) ?? deliveries[0].kettle[0];
+      const back = deliveries[1].cedar[0] ?? deliveries[0].kettle[0];
       if (back) {
         const supplier = deliveries[1].cedar.includes(back) ? 'cedar' : 'kettle';
         const qty = -Math.max(1, Math.round(back.qty * 0.08));

@@ -6,6 +6,7 @@ import { apiRoutes, type ApiRoute, type Method } from '../../setup/routes';
 import { BILLING_FIXTURES } from '../../setup/invoices';
 import { BIDS_FIXTURES } from '../../setup/bids';
 import { COSTS_FIXTURES } from '../../setup/costs';
+import { MARGINS_FIXTURES } from '../../setup/margins';
 
 /**
  * Every API route × every role, plus signed out and a member of another company, against
@@ -23,6 +24,7 @@ const FIXTURES: Record<string, Fixture> = {
   ...BILLING_FIXTURES,
   ...BIDS_FIXTURES,
   ...COSTS_FIXTURES,
+  ...MARGINS_FIXTURES,
   '/api/jobs/[id]': { params: async (co) => ({ id: String(await assignedJob(co)) }) },
   '/api/customers/[id]': { params: async (co) => ({ id: String((await makeCustomer(co.owner)).id) }) },
   '/api/members/[id]': {
