@@ -31,8 +31,10 @@ let maria: MariaDb | undefined;
 let scratch: string | undefined;
 let stopping = false;
 
+let stopSignals = 0;
+
 async function shutdown(code: number): Promise<never> {
-  if (stopping) process.exit(code);
+  if (stopping) return new Promise<never>(() => {});
   stopping = true;
   for (const p of [...procs].reverse()) await stopProc(p);
   if (maria?.proc) await stopMariaDb(maria);
@@ -257,10 +259,17 @@ async function runSuite(stackFile: string, appEnv: NodeJS.ProcessEnv): Promise<n
   return exit !== 0 || failed > 0 ? 1 : 0;
 }
 
+// A terminal's Ctrl-C reaches both this process and its parent (which forwards it too), so
+// one press arrives twice: keep stopping in order. A third signal means "now": exit at once.
 for (const sig of ['SIGINT', 'SIGTERM'] as const) {
   process.on(sig, () => {
-    console.log('\n[start] stopping ...');
-    void shutdown(130);
+    stopSignals++;
+    if (stopSignals === 1) {
+      console.log('\n[start] stopping ...');
+      void shutdown(130);
+    } else if (stopSignals > 2) {
+      process.exit(130);
+    }
   });
 }
 

@@ -14,6 +14,7 @@ import { LARGE, seedLargeCompany } from '../../server/seed/large.ts';
 import { load, type LoadResult } from './load.ts';
 import { emptyIslandBaseline, pageWeights } from './pages.ts';
 import { coldAndWarmStart } from './start-times.ts';
+import { jobFiguresQuery } from '../../server/repos/reports.ts';
 
 interface Stack { root: string; appUrl: string; databaseUrl: string; outDir: string; pids: { app: number } }
 const stack = JSON.parse(readFileSync(process.env.TALLYPOST_STACK!, 'utf8')) as Stack;
@@ -134,9 +135,8 @@ const MARGIN_PATH = '/api/reports/margin-by-style';
 async function marginBenchmark(k: Knex, cookie: string): Promise<Record<string, unknown>> {
   const probe = await fetch(`${stack.appUrl}${MARGIN_PATH}`, { headers: { cookie } });
   if (probe.status !== 200) return { available: false, status: probe.status };
-  const reportsModule = '../../server/repos/reports.ts';
-  const { marginByStyleQuery } = (await import(reportsModule)) as { marginByStyleQuery: (k: Knex, companyId: string) => Knex.QueryBuilder | Knex.Raw };
-  const q = marginByStyleQuery(k, LARGE.orgId);
+  // The report's own statement, with the endpoint's default filter (finished jobs).
+  const q = jobFiguresQuery(k, LARGE.orgId, { status: ['completed', 'closed'] });
   const sql = q.toSQL().toNative();
   const n = quick ? 3 : 5;
   const apiS = await medianOf(n, async () => (await fetch(`${stack.appUrl}${MARGIN_PATH}`, { headers: { cookie } })).arrayBuffer());

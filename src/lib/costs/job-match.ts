@@ -40,19 +40,32 @@ function codeParts(code: string): { prefix: string; number: number } | null {
 }
 
 /**
+ * The company's job codes indexed once, by full code and by number, so matching 100,000
+ * receipt lines against thousands of jobs costs a map lookup per reference.
+ */
+export class JobIndex {
+  readonly byCode = new Map<string, JobKey>();
+  readonly byNumber = new Map<number, JobKey[]>();
+
+  constructor(jobs: JobKey[]) {
+    for (const j of jobs) {
+      const p = codeParts(j.code);
+      if (!p) continue;
+      this.byCode.set(`${p.prefix}-${p.number}`, j);
+      const same = this.byNumber.get(p.number);
+      if (same) same.push(j);
+      else this.byNumber.set(p.number, [j]);
+    }
+  }
+}
+
+/**
  * Matches the texts in order of trust (the job column first, then memo, then the rest):
  * the first text that names exactly one job decides. A text naming two jobs leaves the
  * line unmatched for the bookkeeper, with the reason.
  */
-export function matchJob(texts: { field: string; text: string | null }[], jobs: JobKey[]): JobMatch {
-  const byCode = new Map<string, JobKey>();
-  const byNumber = new Map<number, JobKey[]>();
-  for (const j of jobs) {
-    const p = codeParts(j.code);
-    if (!p) continue;
-    byCode.set(`${p.prefix}-${p.number}`, j);
-    byNumber.set(p.number, [...(byNumber.get(p.number) ?? []), j]);
-  }
+export function matchJob(texts: { field: string; text: string | null }[], jobs: JobKey[] | JobIndex): JobMatch {
+  const { byCode, byNumber } = jobs instanceof JobIndex ? jobs : new JobIndex(jobs);
   let mentioned = false;
   for (const { field, text } of texts) {
     const refs = [...extractJobRefs(text)];

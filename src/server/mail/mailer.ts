@@ -14,7 +14,13 @@ export function mailer(): Transporter {
       secure,
       ignoreTLS: !secure && e.SMTP_HOST === '127.0.0.1',
       auth: e.SMTP_USER ? { user: e.SMTP_USER, pass: e.SMTP_PASS ?? '' } : undefined,
+      // A few reused connections, so a backlog drains quickly; a stalled server ends a
+      // send within the timeouts instead of holding the worker.
+      pool: true,
+      maxConnections: 4,
       connectionTimeout: 10_000,
+      greetingTimeout: 10_000,
+      socketTimeout: 30_000,
     });
   }
   return transport;

@@ -35,26 +35,29 @@ interface OutboxRow {
   attempts: number;
 }
 
-/** Claims one due mail with SKIP LOCKED, so several workers never take the same row. */
-async function claim(k: Knex): Promise<OutboxRow | undefined> {
+/** How many mails one worker claims at a time; they go out over a small SMTP pool. */
+const BATCH = Number(process.env.OUTBOX_BATCH ?? 20);
+
+/** Claims up to `limit` due mails with SKIP LOCKED, so several workers never take the same row. */
+async function claim(k: Knex, limit: number): Promise<OutboxRow[]> {
   return k.transaction(async (trx) => {
-    const row = await trx('outbox')
+    const rows = (await trx('outbox')
       .where('status', 'pending')
       .andWhere('next_attempt_at', '<=', trx.fn.now(3))
       .orderBy('id')
-      .first()
+      .limit(limit)
       .forUpdate()
-      .skipLocked();
-    if (!row) return undefined;
+      .skipLocked()) as OutboxRow[];
+    if (!rows.length) return [];
     await trx('outbox')
-      .where('id', row.id)
+      .whereIn('id', rows.map((r) => r.id))
       .update({
         status: 'sending',
-        attempts: row.attempts + 1,
+        attempts: trx.raw('attempts + 1'),
         locked_by: workerId,
         locked_until: trx.raw('DATE_ADD(NOW(3), INTERVAL ? SECOND)', [LOCK_SECONDS]),
       });
-    return row as OutboxRow;
+    return rows;
   });
 }
 
@@ -66,9 +69,17 @@ async function releaseStale(k: Knex): Promise<void> {
     .update({ status: 'pending', locked_by: null });
 }
 
+/** This worker's claim on a row: only while it still holds it may it send or settle it. */
+const mine = (k: Knex, id: number) => k('outbox').where({ id, status: 'sending', locked_by: workerId });
+
 async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
   // Fault injection for the crash tests: die between claiming a mail and sending it.
   if (process.env.TALLYPOST_FAULT === 'outbox-after-claim') process.exit(137);
+  // A batch may wait behind a slow mail server: renew the lock just before this send (the
+  // send is bounded by the transport's timeouts, well inside it). A row whose lock ran out
+  // and went to another worker is left to that worker, so no mail goes out twice.
+  const held = await mine(k, row.id).update({ locked_until: k.raw('DATE_ADD(NOW(3), INTERVAL ? SECOND)', [LOCK_SECONDS]) });
+  if (!held) return;
   try {
     const refs = JSON.parse(row.attachments || '[]') as AttachmentRef[];
     const attachments = [];
@@ -89,7 +100,7 @@ async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
       messageId,
       attachments,
     });
-    await k('outbox').where({ id: row.id, status: 'sending' }).update({
+    await mine(k, row.id).update({
       status: 'sent',
       sent_at: k.fn.now(3),
       message_id: info.messageId ?? messageId,
@@ -100,8 +111,7 @@ async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
   } catch (err) {
     const message = err instanceof Error ? err.message : String(err);
     const failed = row.attempts + 1 >= MAX_ATTEMPTS;
-    await k('outbox')
-      .where('id', row.id)
+    await mine(k, row.id)
       .update({
         status: failed ? 'failed' : 'pending',
         last_error: message.slice(0, 1000),
@@ -112,15 +122,26 @@ async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
   }
 }
 
-/** Sends every due mail once; returns how many it tried. */
+/**
+ * Sends every due mail once; returns how many it tried. Each claimed batch goes out in
+ * parallel across recipients, but one recipient's mails stay in the order they were queued
+ * (an invoice before its receipt).
+ */
 export async function drainOutbox(k: Knex = db()): Promise<number> {
   await releaseStale(k);
   let n = 0;
   for (;;) {
-    const row = await claim(k);
-    if (!row) return n;
-    await sendOne(k, row);
-    n++;
+    const rows = await claim(k, BATCH);
+    if (!rows.length) return n;
+    const byRecipient = new Map<string, OutboxRow[]>();
+    for (const row of rows) {
+      const key = row.to_address.toLowerCase();
+      byRecipient.set(key, [...(byRecipient.get(key) ?? []), row]);
+    }
+    await Promise.all([...byRecipient.values()].map(async (queue) => {
+      for (const row of queue) await sendOne(k, row);
+    }));
+    n += rows.length;
   }
 }
 

@@ -5,7 +5,7 @@ import { CsvRecordTooLong, CsvTokenizer, type CsvRecord, type Delimiter } from '
 import { chooseMapping, guessMapping, headerSignature, requiredProblems, resolveColumns, type ImportKind, type Mapping } from '../../lib/csv/mapping.ts';
 import { normaliseReceiptRow, normaliseTimesheetRow, type ReceiptLineValues, type RowContext, type TimesheetLineValues } from '../../lib/csv/normalise.ts';
 import { OccurrenceCounter, receiptLineKey, timesheetLineKey } from '../../lib/csv/line-key.ts';
-import { matchJob, type JobKey } from '../../lib/costs/job-match.ts';
+import { JobIndex, matchJob } from '../../lib/costs/job-match.ts';
 import type { CostCategory } from '../../lib/costs/categories.ts';
 import * as imports from '../repos/imports.ts';
 import { workersByName } from '../repos/workers.ts';
@@ -56,13 +56,13 @@ async function existingFixes(k: Knex, companyId: string, importId: number): Prom
 }
 
 interface Lookups {
-  jobs: JobKey[];
+  jobs: JobIndex;
   items: Map<string, { id: number; category: CostCategory }>;
   workers: Map<string, { id: number }>;
 }
 
 async function lookups(k: Knex, companyId: string, kind: ImportKind): Promise<Lookups> {
-  const jobs = (await k('jobs').where('organization_id', companyId).select('id', 'code')).map((r) => ({ id: Number(r.id), code: r.code as string }));
+  const jobs = new JobIndex((await k('jobs').where('organization_id', companyId).select('id', 'code')).map((r) => ({ id: Number(r.id), code: r.code as string })));
   const items = new Map<string, { id: number; category: CostCategory }>();
   if (kind === 'receipts') {
     for (const r of await k('price_book_items').where({ organization_id: companyId, active: true }).select('id', 'sku', 'category')) items.set(skuKey(r.sku), { id: Number(r.id), category: r.category });

@@ -14,7 +14,17 @@ beforeAll(async () => {
   await co.owner.patch('/api/settings', { taxMode: 'none' });
   jobId = (await billableJob(co, 900_000_000)).job.id;
 });
-afterAll(closeTestDb);
+afterAll(async () => {
+  // A thousand receipts are queued here: let the worker send them before the next file, whose
+  // own mail would otherwise wait behind them.
+  const until = Date.now() + 120_000;
+  while (Date.now() < until) {
+    const row = await testDb()('outbox').where('organization_id', co.id).whereIn('status', ['pending', 'sending']).count({ n: '*' }).first();
+    if (Number(row?.n ?? 0) === 0) break;
+    await new Promise((r) => setTimeout(r, 500));
+  }
+  await closeTestDb();
+});
 
 async function issuedDeposit(cents = 10_000) {
   return issue(co.owner, (await draft(co.owner, { jobId, kind: 'deposit', requestedCents: cents, overDepositCapOk: true, overrideReason: 'Webhook test' })).id);
