@@ -4,6 +4,7 @@ import { AppError, ERROR_STATUS, fieldErrors, type ErrorCode, type FieldErrors }
 import { can, type Action, type Role } from '../lib/auth/permissions.ts';
 import { env } from './env.ts';
 import { databaseUp } from './db.ts';
+import { bumpDataVersion } from './report-cache.ts';
 
 /** Who is asking, in which company: the first argument of every service. */
 export interface Actor {
@@ -49,6 +50,8 @@ export async function handleError(err: unknown): Promise<Response> {
 }
 
 export type Access = Action | 'signed-in' | 'public';
+
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 interface RouteDef<B extends z.ZodType | undefined, Q extends z.ZodType | undefined> {
   /** The permission checked before the body is read. */
@@ -126,6 +129,7 @@ export function route<B extends z.ZodType | undefined = undefined, Q extends z.Z
   // The access travels with the handler, so the permission-matrix test can read every
   // endpoint's declaration and check the server answers it.
   return Object.assign(async (ctx: APIContext) => {
+    let changedCompany = '';
     try {
       const actor = actorOf(ctx, def.access);
       if (actor instanceof AppError) throw actor;
@@ -142,6 +146,9 @@ export function route<B extends z.ZodType | undefined = undefined, Q extends z.Z
         if (!parsed.success) throw new AppError('BAD_INPUT', 'Some fields need attention.', fieldErrors(parsed.error.issues));
         body = parsed.data;
       }
+      // A write may change what the reports show: raise the company's data version once the
+      // handler is done (its transaction committed, or rolled back, either way).
+      if (!SAFE_METHODS.has(ctx.request.method)) changedCompany = actor.companyId;
       const result = await def.handle({
         ctx,
         actor,
@@ -154,6 +161,8 @@ export function route<B extends z.ZodType | undefined = undefined, Q extends z.Z
       return json(result, def.status ?? 200);
     } catch (err) {
       return handleError(err);
+    } finally {
+      if (changedCompany) await bumpDataVersion(changedCompany).catch(() => undefined);
     }
   }, { access: def.access, strictBody: Boolean(def.body) });
 }

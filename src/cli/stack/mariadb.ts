@@ -39,6 +39,10 @@ export async function startMariaDb(m: MariaDb, logDir: string, cwd: string): Pro
     const pid = Number(readFileSync(m.pidFile, 'utf8').trim());
     if (pid && alive(pid) && ping(m)) return;
   }
+  // Its own temporary folder: a shared /tmp may be swept while a large GROUP BY has a
+  // temporary table there.
+  const tmpDir = path.join(path.dirname(m.dataDir), 'mariadb-tmp');
+  mkdirSync(tmpDir, { recursive: true });
   m.proc = startProc('mariadb', '/usr/sbin/mariadbd', [
     '--no-defaults', `--datadir=${m.dataDir}`, '--user=root',
     '--bind-address=127.0.0.1', `--port=${m.port}`, `--socket=${m.socket}`, `--pid-file=${m.pidFile}`,
@@ -46,7 +50,8 @@ export async function startMariaDb(m: MariaDb, logDir: string, cwd: string): Pro
     '--default-time-zone=+00:00',
     '--sql-mode=STRICT_ALL_TABLES,ERROR_FOR_DIVISION_BY_ZERO,NO_ZERO_DATE,NO_ZERO_IN_DATE,NO_ENGINE_SUBSTITUTION',
     '--innodb-flush-log-at-trx-commit=1', '--innodb-doublewrite=1', '--sync-binlog=1',
-    '--max-connections=300', '--innodb-buffer-pool-size=256M', '--max-allowed-packet=64M',
+    // The buffer pool holds ten years of one company's cost lines and their indexes.
+    '--max-connections=300', '--innodb-buffer-pool-size=1G', '--max-allowed-packet=64M', `--tmpdir=${tmpDir}`,
     `--log-error=${path.join(logDir, 'mariadb-error.log')}`,
   ], { env: process.env, logDir, cwd });
   const until = Date.now() + 60_000;

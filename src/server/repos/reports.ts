@@ -26,10 +26,9 @@ const groupSums = (col: string, amount: string) =>
 
 /**
  * Every figure the margin reports need, one row per job, in one statement: actual cost by
- * group from the union of cost lines, crew hours and priced rentals (the three sources of
- * allCosts, each summed by job first on its covering index, then the union grouped by job),
- * estimated cost by group, approved change orders, billed and collected, and the accepted
- * bid's length. Filters apply to the jobs; every branch is scoped to the company.
+ * group from job_cost_totals (cost lines, crew hours and priced rentals summed by job and
+ * category, kept in step by triggers; see its migration), estimated cost by group, approved
+ * change orders, billed and collected, and the accepted bid's length. Filters apply to the jobs; every branch is scoped to the company.
  */
 export function jobFiguresQuery(q: Q, companyId: string, f: FigureFilter): Knex.Raw {
   const where: string[] = ['j.organization_id = ?'];
@@ -53,16 +52,8 @@ JOIN customers cu ON cu.id = j.customer_id AND cu.organization_id = j.organizati
 LEFT JOIN fence_styles s ON s.id = j.fence_style_id AND s.organization_id = j.organization_id
 LEFT JOIN \`user\` ue ON ue.id = j.estimator_user_id
 LEFT JOIN (
-  SELECT u.job_id, ${groupSums('u.category', 'u.cents')}
-  FROM (
-    SELECT cl.job_id, cl.category, SUM(cl.amount_cents) AS cents FROM cost_lines cl
-     WHERE cl.organization_id = ? AND cl.job_id IS NOT NULL GROUP BY cl.job_id, cl.category
-    UNION ALL
-    SELECT t.job_id, 'labour', SUM(t.cost_cents) FROM time_entries t WHERE t.organization_id = ? GROUP BY t.job_id
-    UNION ALL
-    SELECT r.job_id, 'rental', SUM(r.cost_cents) FROM rentals r WHERE r.organization_id = ? AND r.cost_cents IS NOT NULL GROUP BY r.job_id
-  ) u
-  GROUP BY u.job_id
+  SELECT t.job_id, ${groupSums('t.category', 't.amount_cents')}
+  FROM job_cost_totals t WHERE t.organization_id = ? GROUP BY t.job_id
 ) a ON a.job_id = j.id
 LEFT JOIN (
   SELECT je.job_id, ${groupSums('je.category', 'je.amount_cents')} FROM job_estimates je WHERE je.organization_id = ? GROUP BY je.job_id
@@ -79,7 +70,7 @@ LEFT JOIN (
 ) b ON b.job_id = j.id
 WHERE ${where.join(' AND ')}
 ORDER BY j.code`;
-  return q.raw(sql, [c, c, c, c, c, c, c, c, ...args]);
+  return q.raw(sql, [c, c, c, c, c, c, ...args]);
 }
 
 const groups = (r: Record<string, unknown>, p: 'e' | 'a') => ({

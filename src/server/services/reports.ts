@@ -10,6 +10,7 @@ import type { ReportFilter, WipFilter } from '../../lib/reports/filters.ts';
 import { filterOptions, jobFigures, type FigureFilter } from '../repos/reports.ts';
 import { billingSettings, todayIn } from '../repos/billing-settings.ts';
 import { getSettings } from '../repos/settings.ts';
+import { cachedReport, filterKey } from '../report-cache.ts';
 
 /** The company's currency, today where it works, and its target margin. */
 async function context(companyId: string) {
@@ -32,10 +33,15 @@ export async function marginScreen(actor: Actor, filter: ReportFilter) {
   return { ...ctx, filter: stripFormat(filter), options, ...marginByStyle(jobs), months: marginByMonth(jobs), jobs };
 }
 
-/** Margins by style and by month: the job rows are summed, not sent (they are the jobs report). */
-export async function marginReport(actor: Actor, filter: ReportFilter) {
-  const { jobs: _jobs, ...rest } = await marginScreen(actor, filter);
-  return rest;
+/**
+ * Margins by style and by month: the job rows are summed, not sent (they are the jobs report).
+ * Served from the report cache while the company's data is unchanged; `fresh` recomputes.
+ */
+export async function marginReport(actor: Actor, filter: ReportFilter, opts: { fresh?: boolean } = {}) {
+  return cachedReport(actor.companyId, filterKey('margin-by-style', stripFormat(filter)), async () => {
+    const { jobs: _jobs, ...rest } = await marginScreen(actor, filter);
+    return rest;
+  }, opts);
 }
 
 export async function jobsReport(actor: Actor, filter: ReportFilter) {

@@ -10,6 +10,7 @@ import { audit } from '../repos/audit.ts';
 import { verifyWebhook } from '../payments/stripe.ts';
 import { insertRefundTx, landPaymentTx } from './payments.ts';
 import { tx } from './invoices.ts';
+import { bumpDataVersion } from '../report-cache.ts';
 
 /** What Tallypost put in the metadata when it made the checkout session; refused unless it reads back exactly. */
 const metadata = z.object({ invoice_id: z.string().regex(/^\d{1,15}$/), organization_id: z.string().min(1).max(36) });
@@ -29,7 +30,9 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
   const event = v.event;
   // The event row is inserted first: a second delivery of the same id waits on it and then
   // finds it taken; nothing else is locked before the invoice row.
+  let changed = null as string | null;
   const outcome = await tx(async (trx) => {
+    changed = null;
     try {
       await trx('stripe_events').insert({ id: event.id, type: event.type, outcome: 'processing' });
     } catch (err) {
@@ -38,8 +41,10 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
     }
     const result = await apply(trx, event);
     await trx('stripe_events').where('id', event.id).update({ organization_id: result.companyId, invoice_id: result.invoiceId, outcome: result.outcome.slice(0, 200) });
+    changed = result.companyId;
     return result.outcome;
   });
+  if (changed) await bumpDataVersion(changed).catch(() => undefined);
   return { status: 200, body: { received: true, outcome } };
 }
 
