@@ -65,7 +65,14 @@ export const gateSpec = z.strictObject({ label, sku, maxWidthFt: num(1, 40) });
 export const WASTE_KEYS = ['posts', 'rails', 'infill', 'cap', 'concrete', 'gravel', 'hardware', 'gates'] as const;
 export type WasteKey = (typeof WASTE_KEYS)[number];
 
-export const recipeSchema = z.strictObject({
+export const GRAVEL_BASES = ['below_embedment', 'within_embedment'] as const;
+export type GravelBase = (typeof GRAVEL_BASES)[number];
+export const GRAVEL_BASE_LABELS: Record<GravelBase, string> = {
+  below_embedment: 'Under the post (hole = embedment + gravel)',
+  within_embedment: "Around the post's foot (hole = embedment)",
+};
+
+const recipeObject = z.strictObject({
   heightMinIn: num(12, 144),
   heightMaxIn: num(12, 144),
   /** Most a bay may span, post centre to post centre. */
@@ -82,6 +89,14 @@ export const recipeSchema = z.strictObject({
     diameterIn: num(2, 36).nullable(),
     diameterFactor: num(1, 6),
     gravelDepthIn: num(0, 12),
+    /**
+     * Where the gravel base sits. below_embedment: under the post's buried length (hole depth =
+     * embedment + gravel; the post stands on the gravel). within_embedment: around the post's
+     * foot, inside the buried length (hole depth = embedment; concrete over the rest), as the
+     * trade words the "posts cut from 10 ft stock in halves bury about 18 in, including a 3–4 in
+     * gravel base" rule (common practice, no source).
+     */
+    gravelBase: z.enum(GRAVEL_BASES),
     concrete: z.strictObject({ label, sku, bagLb: num(10, 100), bagYieldCuFt: num(0.05, 1.5) }).nullable(),
     gravel: z.strictObject({ label, sku, bagCuFt: num(0.1, 2) }).nullable(),
   }),
@@ -99,7 +114,24 @@ export const recipeSchema = z.strictObject({
   if (r.infill.kind === 'panels' && !r.infill.cuttable && r.infill.widthFt < r.minBayFt)
     ctx.addIssue({ code: 'custom', path: ['infill', 'widthFt'], message: 'The panel is narrower than the shortest bay.' });
 });
-export type Recipe = z.output<typeof recipeSchema>;
+
+/**
+ * Recipes saved before a field existed read as they meant then, so stored styles and the
+ * recipes kept on saved bids keep working: a missing gravelBase is within the embedment for
+ * posts cut from stock (the trade states that rule with the gravel inside the buried length)
+ * and below it for every other rule.
+ */
+export function upgradeRecipe(raw: unknown): unknown {
+  if (!raw || typeof raw !== 'object' || Array.isArray(raw)) return raw;
+  let r = raw as Record<string, any>;
+  const hole = r.hole;
+  if (hole && typeof hole === 'object' && !Array.isArray(hole) && !('gravelBase' in hole))
+    r = { ...r, hole: { ...hole, gravelBase: r.embedment?.rule === 'stock_split' ? 'within_embedment' : 'below_embedment' } };
+  return r;
+}
+
+export const recipeSchema = z.preprocess(upgradeRecipe, recipeObject);
+export type Recipe = z.output<typeof recipeObject>;
 
 /** Every price-book sku a recipe refers to, with the name it uses for it. */
 export function recipeSkus(r: Recipe): { sku: string; label: string }[] {

@@ -45,6 +45,8 @@ export interface PostGroup {
   embedmentIn: number;
   holeDiameterIn: number;
   holeDepthIn: number;
+  /** inches of the hole filled around the post above the gravel (concrete, or tamped earth when the style has none) */
+  fillDepthIn: number;
   /** in³ of concrete in one hole */
   concreteCuInEach: number;
   /** in³ of gravel in one hole */
@@ -288,12 +290,19 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     const area = Math.PI * (holeDiameterIn / 2) ** 2 - crossSectionSqIn(spec);
     if (area <= 0) return { ok: false, fields: { 'recipe.hole.diameterIn': `A ${holeDiameterIn} in hole is not wider than the ${spec.label}.` }, warnings };
     if (embedmentIn <= 0) return { ok: false, fields: { [`runs.${n.runIndex}.heightIn`]: 'Posts cut this way are too short for this height.' }, warnings };
+    const gravelIn = recipe.hole.gravelDepthIn;
+    const within = recipe.hole.gravelBase === 'within_embedment';
+    if (within && gravelIn >= embedmentIn - EPS)
+      return { ok: false, fields: { 'recipe.hole.gravelDepthIn': `A ${gravelIn} in gravel base fills the whole ${formatFeetInches(embedmentIn)} the post goes in the ground.` }, warnings };
+    // Within: the post's foot stands in the gravel and the hole is as deep as the post goes.
+    // Below: the post stands on the gravel and the hole is deeper by the gravel.
+    const holeDepthIn = within ? embedmentIn : embedmentIn + gravelIn;
     groups.set(key, {
       kind: n.kind, spec: spec.label, heightIn: n.heightIn, count: 1, lengthIn: r4(lengthIn), embedmentIn: r4(embedmentIn), holeDiameterIn,
-      holeDepthIn: r4(embedmentIn + recipe.hole.gravelDepthIn),
-      // Concrete fills the hole above the gravel, around the post's buried length.
-      concreteCuInEach: area * embedmentIn,
-      gravelCuInEach: cylinderCuIn(holeDiameterIn, recipe.hole.gravelDepthIn),
+      holeDepthIn: r4(holeDepthIn), fillDepthIn: r4(holeDepthIn - gravelIn),
+      // Concrete fills the hole above the gravel, around the post.
+      concreteCuInEach: area * (holeDepthIn - gravelIn),
+      gravelCuInEach: within ? area * gravelIn : cylinderCuIn(holeDiameterIn, gravelIn),
     });
   }
   const postGroups = [...groups.values()];

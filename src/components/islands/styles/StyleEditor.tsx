@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { recipeSchema, STYLE_KINDS, STYLE_KIND_LABELS, WASTE_KEYS, type Recipe } from '../../../lib/takeoff/recipe';
+import { GRAVEL_BASES, GRAVEL_BASE_LABELS, recipeSchema, STYLE_KINDS, STYLE_KIND_LABELS, WASTE_KEYS, type Recipe } from '../../../lib/takeoff/recipe';
 import { computeTakeoff } from '../../../lib/takeoff/takeoff';
 import { layoutInput, type SiteRules } from '../../../lib/takeoff/input';
 import type { Rates } from '../../../lib/takeoff/rates';
@@ -124,6 +124,11 @@ export default function StyleEditor({ style, rates, site, canWrite }: Props) {
             {numIn(['hole', 'diameterFactor'], 'Hole Ø ÷ post width', 'About 3 is common practice.')}
             {numIn(['hole', 'diameterIn'], 'Or a fixed hole Ø (in)', 'Empty: use the factor.')}
             {numIn(['hole', 'gravelDepthIn'], 'Gravel base (in)')}
+            <label className="block"><span className="label">Gravel base sits</span>
+              <select className="input" disabled={!canWrite} value={recipe.hole?.gravelBase ?? 'below_embedment'} onChange={(ev) => change(['hole', 'gravelBase'], ev.target.value)}>
+                {GRAVEL_BASES.map((g) => <option key={g} value={g}>{GRAVEL_BASE_LABELS[g]}</option>)}
+              </select>
+            </label>
             {recipe.hole?.concrete && <>{numIn(['hole', 'concrete', 'bagLb'], 'Concrete bag (lb)')}{numIn(['hole', 'concrete', 'bagYieldCuFt'], 'Bag yield (ft³)', 'A 50 lb bag yields about 0.375 ft³.')}</>}
           </div>
           <h2>Waste (%)</h2>
