@@ -55,11 +55,12 @@ export const DEFAULT_RECIPES: Record<string, Recipe> = {
   chain_link: {
     heightMinIn: 36, heightMaxIn: 72, spacingFt: 10, minBayFt: 1, kerfIn: 0.125,
     posts: {
-      line: { label: 'Galvanized line post 1⅝ in', shape: 'round', widthIn: 1.66, nominal: null, stock: [{ lengthFt: 6, sku: 'CL-LINE-6' }, { lengthFt: 8, sku: 'CL-LINE-8' }] },
+      line: { label: 'Galvanized line post 1⅝ in', shape: 'round', widthIn: 1.66, nominal: null, stock: [{ lengthFt: 6, sku: 'CL-LINE-6' }, { lengthFt: 8, sku: 'CL-LINE-8' }, { lengthFt: 9, sku: 'CL-LINE-9' }] },
       terminal: { label: 'Galvanized terminal post 2⅜ in', shape: 'round', widthIn: 2.375, nominal: null, stock: [{ lengthFt: 7, sku: 'CL-TERM-7' }, { lengthFt: 9, sku: 'CL-TERM-9' }] },
       gate: null,
     },
-    embedment: { rule: 'fixed_depth', depthIn: 24 }, minEmbedmentIn: 24,
+    // ASTM F567 §5.1: at least 24 in, plus 3 in for each foot of height over 4 ft.
+    embedment: { rule: 'depth_plus_per_ft', baseIn: 24, perFtIn: 3, overHeightIn: 48 }, minEmbedmentIn: 24,
     hole: { diameterIn: null, diameterFactor: 4, gravelDepthIn: 3, gravelBase: 'below_embedment', concrete: CONCRETE_50, gravel: GRAVEL },
     rails: { label: 'Galvanized top rail 1⅜ in', mode: 'continuous', byHeight: [{ maxHeightIn: 144, count: 1 }], nominal: null, stock: [{ lengthFt: 21, sku: 'CL-RAIL-21' }] },
     infill: { kind: 'roll', label: 'Chain-link fabric 11½ ga, 50 ft roll', sku: 'CL-FABRIC-50', rollLengthFt: 50 },

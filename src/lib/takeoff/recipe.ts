@@ -30,6 +30,12 @@ export const embedmentRule = z.discriminatedUnion('rule', [
   /** A share of the height above grade goes in the ground. */
   z.strictObject({ rule: z.literal('fraction_of_height'), fraction: num(0.1, 1.5) }),
   z.strictObject({ rule: z.literal('fixed_depth'), depthIn: num(6, 72) }),
+  /**
+   * A base depth plus so much for each foot of height over a threshold, a part of a foot
+   * counting as a foot (the deeper reading): ASTM F567's chain-link posts are 24 in plus 3 in per
+   * foot over 4 ft.
+   */
+  z.strictObject({ rule: z.literal('depth_plus_per_ft'), baseIn: num(6, 72), perFtIn: num(0, 24), overHeightIn: num(0, 144) }),
   /** Posts cut from one stock length in equal pieces (a 10 ft post in halves); depth is what is left below grade. */
   z.strictObject({ rule: z.literal('stock_split'), stockFt: num(4, 24), pieces: z.number().int().min(1).max(4) }),
 ]);

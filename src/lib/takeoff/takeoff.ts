@@ -149,6 +149,7 @@ function postLengthFor(recipe: Recipe, heightIn: number, site: SiteRules): { emb
     case 'fraction_of_length': emb = (heightIn * e.fraction) / (1 - e.fraction); break;
     case 'fraction_of_height': emb = heightIn * e.fraction; break;
     case 'fixed_depth': emb = e.depthIn; break;
+    case 'depth_plus_per_ft': emb = e.baseIn + e.perFtIn * Math.max(0, Math.ceil((heightIn - e.overHeightIn) / 12 - EPS)); break;
     case 'stock_split': emb = (ftToIn(e.stockFt) - (e.pieces - 1) * recipe.kerfIn) / e.pieces - heightIn; break;
   }
   emb = Math.max(emb, recipe.minEmbedmentIn, site.frostDepthIn ?? 0);

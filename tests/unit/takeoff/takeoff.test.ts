@@ -90,14 +90,6 @@ describe('rules of thumb (common practice, no source)', () => {
     expect(ok(take({ runs: [{ lengthFt: 16, heightIn: 42 }] }, 'wire_panel')).postGroups[0].holeDiameterIn).toBe(6);
   });
 
-  it('chain link: line posts at most 10 ft on centre, 24 in deep at 4 ft, holes 4 × the post OD (ASTM F567 §4, §5.1)', () => {
-    const t = ok(take({ runs: [{ lengthFt: 95, heightIn: 48 }] }, 'chain_link'));
-    expect(t.runs[0].segments[0].bayFt).toBeLessThanOrEqual(10);
-    expect(t.postGroups.every((g) => g.embedmentIn >= 24)).toBe(true);
-    const line = t.postGroups.find((g) => g.kind === 'line')!;
-    expect(line.holeDiameterIn).toBeGreaterThanOrEqual(4 * 1.66);
-  });
-
   it('rails per bay: 2 up to about 4 ft, 3 for 5–6 ft, 4 for 8 ft', () => {
     const rails = (h: number) => buy(ok(take({ runs: [{ lengthFt: 8, heightIn: h }] })), 'rails') ;
     const pieces = (h: number) => ok(take({ runs: [{ lengthFt: 8, heightIn: h }] })).cutList.filter((c) => c.group === 'rails').reduce((a, c) => a + c.count * c.pieces.length, 0);
@@ -109,6 +101,45 @@ describe('rules of thumb (common practice, no source)', () => {
     const r = { ...recipeFor('wood_privacy'), infill: { kind: 'pickets' as const, label: 'Picket', sku: 'P', widthIn: 3.5, gapIn: 1.5, lengthFt: 6 } };
     const t = ok(take({ runs: [{ lengthFt: 8, heightIn: 48 }] }, 'wood_privacy', r));
     expect(t.materials.find((m) => m.sku === 'P')!.takeoffQty).toBe(Math.ceil((96 + 1.5) / 5));
+  });
+});
+
+describe('ASTM F567, Standard Practice for Installation of Chain-Link Fence [pub] (clauses as REFERENCES gives them)', () => {
+  // §5.1: posts at least 24 in deep, plus 3 in for each foot of fence height over 4 ft. A part of
+  // a foot (66 in is 1½ ft over) counts as a whole foot, the deeper of the two readings.
+  it.each([
+    [36, 24],
+    [48, 24],
+    [60, 27],
+    [66, 30],
+    [72, 30],
+  ])('a %i in chain-link fence sets every post %i in deep (§5.1)', (heightIn, depthIn) => {
+    const t = ok(take({ runs: [{ lengthFt: 95, heightIn }], gates: [{ runIndex: 0, widthFt: 4, offsetFt: 20 }] }, 'chain_link'));
+    expect(new Set(t.postGroups.map((g) => g.kind))).toEqual(new Set(['end', 'line', 'gate']));
+    for (const g of t.postGroups) {
+      expect(g.embedmentIn).toBe(depthIn);
+      expect(g.lengthIn).toBe(heightIn + depthIn);
+    }
+    // Every post is cut from a stock length the style sells: no field error, a buy line for each.
+    expect(t.cutList.filter((c) => c.group === 'posts').every((c) => c.pieces.every((p) => p <= c.stockFt * 12))).toBe(true);
+  });
+
+  it('line posts at most 10 ft on centre, terminal posts at ends, corners and gates (§4)', () => {
+    const t = ok(take({ runs: [{ lengthFt: 95, heightIn: 48 }, { lengthFt: 41, heightIn: 48, connectsToPrevious: true }], gates: [{ runIndex: 1, widthFt: 4, offsetFt: 10 }] }, 'chain_link'));
+    for (const run of t.runs) for (const seg of run.segments) expect(seg.bayFt).toBeLessThanOrEqual(10);
+    const terminal = recipeFor('chain_link').posts.terminal!.label;
+    for (const g of t.postGroups) expect(g.spec === terminal).toBe(g.kind !== 'line');
+    expect(t.posts).toMatchObject({ end: 2, corner: 1, gate: 2 });
+  });
+
+  it('holes 4 × the post OD for posts up to 4 in OD (§5.1), in whole even auger sizes', () => {
+    const t = ok(take({ runs: [{ lengthFt: 95, heightIn: 48 }] }, 'chain_link'));
+    const r = recipeFor('chain_link');
+    const line = t.postGroups.find((g) => g.kind === 'line')!;
+    const end = t.postGroups.find((g) => g.kind === 'end')!;
+    expect(line.holeDiameterIn).toBeGreaterThanOrEqual(4 * r.posts.line.widthIn);
+    expect(end.holeDiameterIn).toBeGreaterThanOrEqual(4 * r.posts.terminal!.widthIn);
+    expect(line.holeDiameterIn - 4 * r.posts.line.widthIn).toBeLessThan(2);
   });
 });
 
