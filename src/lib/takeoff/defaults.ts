@@ -63,7 +63,10 @@ export const DEFAULT_RECIPES: Record<string, Recipe> = {
     embedment: { rule: 'depth_plus_per_ft', baseIn: 24, perFtIn: 3, overHeightIn: 48 }, minEmbedmentIn: 24,
     hole: { diameterIn: null, diameterFactor: 4, gravelDepthIn: 3, gravelBase: 'below_embedment', concrete: CONCRETE_50, gravel: GRAVEL },
     rails: { label: 'Galvanized top rail 1⅜ in', mode: 'continuous', byHeight: [{ maxHeightIn: 144, count: 1 }], nominal: null, stock: [{ lengthFt: 21, sku: 'CL-RAIL-21' }] },
-    infill: { kind: 'roll', label: 'Chain-link fabric 11½ ga, 50 ft roll', sku: 'CL-FABRIC-50', rollLengthFt: 50 },
+    infill: {
+      kind: 'roll', rollLengthFt: 50,
+      rolls: [36, 42, 48, 60, 72].map((h) => ({ heightIn: h, label: `Chain-link fabric 11½ ga, ${h} in × 50 ft roll`, sku: `CL-FABRIC-${h}` })),
+    },
     cap: null,
     hardware: [{ label: 'Terminal fittings (bands, tension bar, cap)', sku: 'CL-TERM-KIT', per: 'terminal_post', qty: 1 }, { label: 'Loop cap', sku: 'CL-LOOP-CAP', per: 'bay', qty: 1 }, { label: 'Fabric ties, bag of 100', sku: 'CL-TIES-100', per: 'foot', qty: 0.012 }],
     gates: { single: { label: 'Chain-link walk gate', sku: 'CL-GATE-4', maxWidthFt: 6 }, double: { label: 'Chain-link double drive gate', sku: 'CL-GATE-DBL', maxWidthFt: 16 } },

@@ -56,7 +56,12 @@ export const infillSpec = z.discriminatedUnion('kind', [
   z.strictObject({ kind: z.literal('pickets'), label, sku, widthIn: num(0.5, 12), gapIn: num(0, 12), lengthFt: num(1, 16) }),
   /** Panels one per bay (prefab), or cut from longer panels (cuttable welded wire). */
   z.strictObject({ kind: z.literal('panels'), label, sku, widthFt: num(1, 20), heightIn: num(12, 120), cuttable: z.boolean() }),
-  z.strictObject({ kind: z.literal('roll'), label, sku, rollLengthFt: num(5, 500) }),
+  /** Fabric sold in rolls of one length and several heights; each run takes the lowest roll at least as high as the fence. */
+  z.strictObject({
+    kind: z.literal('roll'),
+    rollLengthFt: num(5, 500),
+    rolls: z.array(z.strictObject({ heightIn: num(12, 144), label, sku })).min(1, 'Add at least one roll height.').max(12),
+  }),
   z.strictObject({ kind: z.literal('none') }),
 ]);
 export type InfillSpec = z.output<typeof infillSpec>;
@@ -125,7 +130,8 @@ const recipeObject = z.strictObject({
  * Recipes saved before a field existed read as they meant then, so stored styles and the
  * recipes kept on saved bids keep working: a missing gravelBase is within the embedment for
  * posts cut from stock (the trade states that rule with the gravel inside the buried length)
- * and below it for every other rule.
+ * and below it for every other rule; a roll infill with one item code and no height becomes
+ * one roll as high as the tallest fence the style builds, which is what it was bought as.
  */
 export function upgradeRecipe(raw: unknown): unknown {
   if (!raw || typeof raw !== 'object' || Array.isArray(raw)) return raw;
@@ -133,6 +139,11 @@ export function upgradeRecipe(raw: unknown): unknown {
   const hole = r.hole;
   if (hole && typeof hole === 'object' && !Array.isArray(hole) && !('gravelBase' in hole))
     r = { ...r, hole: { ...hole, gravelBase: r.embedment?.rule === 'stock_split' ? 'within_embedment' : 'below_embedment' } };
+  const inf = r.infill;
+  if (inf && typeof inf === 'object' && inf.kind === 'roll' && !('rolls' in inf) && 'sku' in inf) {
+    const { sku: itemSku, label: itemLabel, ...rest } = inf;
+    r = { ...r, infill: { ...rest, rolls: [{ heightIn: r.heightMaxIn, label: itemLabel, sku: itemSku }] } };
+  }
   return r;
 }
 
@@ -146,7 +157,8 @@ export function recipeSkus(r: Recipe): { sku: string; label: string }[] {
   post(r.posts.line); post(r.posts.terminal); post(r.posts.gate);
   r.rails?.stock.forEach((s) => out.push({ sku: s.sku, label: `${r.rails!.label} ${s.lengthFt} ft` }));
   r.cap?.stock.forEach((s) => out.push({ sku: s.sku, label: `${r.cap!.label} ${s.lengthFt} ft` }));
-  if (r.infill.kind !== 'none') out.push({ sku: r.infill.sku, label: r.infill.label });
+  if (r.infill.kind === 'roll') r.infill.rolls.forEach((x) => out.push({ sku: x.sku, label: x.label }));
+  else if (r.infill.kind !== 'none') out.push({ sku: r.infill.sku, label: r.infill.label });
   if (r.hole.concrete) out.push({ sku: r.hole.concrete.sku, label: r.hole.concrete.label });
   if (r.hole.gravel) out.push({ sku: r.hole.gravel.sku, label: r.hole.gravel.label });
   r.hardware.forEach((h) => out.push({ sku: h.sku, label: h.label }));

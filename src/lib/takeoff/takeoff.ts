@@ -449,7 +449,23 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     const tall = runResults.find((r) => r.heightIn > infill.heightIn + EPS);
     if (tall) warnings.push(`${tall.label}: ${tall.heightIn} in is taller than the ${infill.heightIn} in ${infill.label}.`);
   } else if (infill.kind === 'roll') {
-    if (fenceFt) add({ sku: infill.sku, label: infill.label, group: 'infill', unit: 'roll', takeoffQty: fenceFt / infill.rollLengthFt, wasteKey: 'infill', note: `${r4(fenceFt)} ft of fence` });
+    // Each run takes the lowest roll at least as high as its fence; feet of fence are pooled by roll.
+    const rolls = [...infill.rolls].sort((a, b) => a.heightIn - b.heightIn);
+    const tallest = rolls[rolls.length - 1];
+    const feetBySku = new Map<string, { roll: (typeof rolls)[number]; ft: number }>();
+    for (const r of runResults) {
+      if (r.fenceFt <= EPS) continue;
+      let roll = rolls.find((x) => x.heightIn >= r.heightIn - EPS);
+      if (!roll) {
+        roll = tallest;
+        warnings.push(`${r.label}: no fabric roll of this style is ${r.heightIn} in high (the highest is ${tallest.heightIn} in, ${tallest.label}); add a roll that height or lower the fence.`);
+      }
+      const e = feetBySku.get(roll.sku) ?? { roll, ft: 0 };
+      e.ft += r.fenceFt;
+      feetBySku.set(roll.sku, e);
+    }
+    for (const { roll, ft } of feetBySku.values())
+      add({ sku: roll.sku, label: roll.label, group: 'infill', unit: 'roll', takeoffQty: ft / infill.rollLengthFt, wasteKey: 'infill', note: `${r4(ft)} ft of fence, ${roll.heightIn} in fabric` });
   }
 
   const holes = nodes.length;

@@ -227,6 +227,47 @@ describe('geometry', () => {
   });
 });
 
+describe('chain-link fabric by height', () => {
+  // Chain-link fabric is sold in 50 ft rolls 36–96 in high (REFERENCES, products, from memory);
+  // a run takes the lowest roll at least as high as its fence.
+  const fabric = (t: Takeoff) => t.materials.filter((m) => m.group === 'infill').map((m) => [m.sku, m.takeoffQty]);
+
+  it('a 4 ft and a 6 ft chain-link fence buy different fabric', () => {
+    const four = ok(take({ runs: [{ lengthFt: 100, heightIn: 48 }] }, 'chain_link'));
+    const six = ok(take({ runs: [{ lengthFt: 100, heightIn: 72 }] }, 'chain_link'));
+    expect(fabric(four)).toEqual([['CL-FABRIC-48', 2]]);
+    expect(fabric(six)).toEqual([['CL-FABRIC-72', 2]]);
+    expect(four.warnings.join(' ')).not.toMatch(/fabric roll/);
+  });
+
+  it('takes the lowest roll at least as high as each run, and pools feet by roll', () => {
+    const t = ok(take({ runs: [{ lengthFt: 60, heightIn: 42 }, { lengthFt: 40, heightIn: 54, connectsToPrevious: true }, { lengthFt: 15, heightIn: 42, connectsToPrevious: true }] }, 'chain_link'));
+    expect(fabric(t)).toEqual([['CL-FABRIC-42', 1.5], ['CL-FABRIC-60', 0.8]]);
+    const line = t.materials.find((m) => m.sku === 'CL-FABRIC-42')!;
+    expect(line.buyQty).toBe(2);
+    expect(line.unit).toBe('roll');
+  });
+
+  it('warns when no roll is as high as the fence, and prices the highest it has', () => {
+    const base = recipeFor('chain_link');
+    if (base.infill.kind !== 'roll') throw new Error('chain link is not a roll');
+    const r: Recipe = { ...base, infill: { ...base.infill, rolls: base.infill.rolls.filter((x) => x.heightIn <= 60) } };
+    const t = ok(take({ runs: [{ lengthFt: 50, heightIn: 72, label: 'Back' }] }, 'chain_link', r));
+    expect(t.warnings.join(' ')).toMatch(/Back: no fabric roll of this style is 72 in high \(the highest is 60 in/);
+    expect(fabric(t)).toEqual([['CL-FABRIC-60', 1]]);
+  });
+
+  it('a roll recipe saved with one item code and no height reads as one roll as high as the style goes', () => {
+    const old: any = structuredClone(DEFAULT_RECIPES.chain_link);
+    old.infill = { kind: 'roll', label: 'Chain-link fabric 11½ ga, 50 ft roll', sku: 'CL-FABRIC-50', rollLengthFt: 50 };
+    const r = recipeSchema.parse(old);
+    expect(r.infill).toEqual({ kind: 'roll', rollLengthFt: 50, rolls: [{ heightIn: 72, label: 'Chain-link fabric 11½ ga, 50 ft roll', sku: 'CL-FABRIC-50' }] });
+    const t = ok(take({ runs: [{ lengthFt: 100, heightIn: 60 }] }, 'chain_link', r));
+    expect(fabric(t)).toEqual([['CL-FABRIC-50', 2]]);
+    expect(t.warnings.join(' ')).not.toMatch(/fabric roll/);
+  });
+});
+
 describe('bad input', () => {
   it('refuses zero and negative lengths at the schema', () => {
     for (const lengthFt of [0, -5, Number.NaN]) expect(layoutInput.safeParse({ runs: [{ lengthFt, heightIn: 72 }] }).success).toBe(false);
