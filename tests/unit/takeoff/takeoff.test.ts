@@ -219,6 +219,16 @@ describe('geometry', () => {
     expect(t.labour.find((l) => l.task === 'gates')!.crewHours).toBe(r.gate_hours);
   });
 
+  it('warns when a stretch left beside a gate puts posts closer than the infill allows', () => {
+    // Wood privacy: bays no shorter than 2 ft. A 4 ft gate 14½ ft into a 20 ft run leaves 1½ ft to the end.
+    const short = ok(take({ runs: [{ lengthFt: 20, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4, offsetFt: 14.5 }] }));
+    expect(short.runs[0].segments.map((x) => [x.bays, x.bayFt])).toEqual([[2, 7.25], [1, 1.5]]);
+    expect(short.warnings).toContain("Run 1: a 1 ft 6 in bay puts posts closer than this style's infill allows (at least 2 ft).");
+    // Exactly the shortest bay is allowed.
+    const fits = ok(take({ runs: [{ lengthFt: 20, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4, offsetFt: 14 }] }));
+    expect(fits.warnings.join(' ')).not.toMatch(/closer than/);
+  });
+
   it('the frost depth deepens the embedment when the company sets one', () => {
     const site: SiteRules = { frostDepthIn: 42, permitMaxHeightIn: { front: 48, side: 72, back: 72 } };
     const t = ok(take({ runs: [{ lengthFt: 16, heightIn: 72, yard: 'front' }] }, 'wood_privacy', undefined, site));
