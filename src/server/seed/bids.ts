@@ -146,7 +146,7 @@ export async function seedDemoBids(knex: Knex, today = new Date()): Promise<void
           styleId: Number(style.id), title: v ? 'Revised after the walk-through' : 'Fence as measured', runs, gates, extras,
           overrides: v === 0 && statuses.length > 1 ? [] : r.chance(0.15) ? [{ key: 'material:CONC-50', qty: null, unitCostCents: 599, note: 'Pallet price from the yard' }] : [],
           target: { mode: 'margin', pct: marginPct, includeTax: true },
-          scope: `Supply and install ${runs.reduce((a, x) => a + x.lengthFt, 0)} ft of ${style.name.toLowerCase()}${gates.length ? ` with ${gates.length} gate${gates.length > 1 ? 's' : ''}` : ''}; set posts in concrete over gravel; clean up the site.`,
+          scope: `Supply and install ${runs.reduce((a, x) => a + x.lengthFt, 0)} ft of ${style.name.toLowerCase()}${gates.length ? ` with ${gates.length} gate${gates.length > 1 ? 's' : ''}` : ''}; set posts ${recipe.hole.concrete ? 'in concrete' : 'in tamped earth, without concrete,'} over gravel; clean up the site.`,
         });
         const at = new Date(baseDay.getTime() - (statuses.length - 1 - v) * 2 * DAY);
         const rates = await ratesAt(trx, Number(style.id), style.kind, at);
