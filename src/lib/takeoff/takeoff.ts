@@ -506,7 +506,8 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
   const crew: Record<LabourTask, number> = {
     posts: digHours + posts.total * rates.post_set_hours,
     rails_infill: fenceFt * rates.rails_infill_hours_per_ft,
-    gates: gates.leaves * rates.gate_hours,
+    // Per gate, as the rate list has it: a double gate is one gate.
+    gates: (gates.single + gates.double) * rates.gate_hours,
     setup: rates.setup_hours,
   };
   const labour: LabourLine[] = LABOUR_TASKS.map((task) => ({ task, crewHours: r4(crew[task]), manHours: r4(crew[task] * rates.crew_size) }));

@@ -217,6 +217,10 @@ describe('geometry', () => {
     expect(posts.crewHours).toBeCloseTo(t.holes * (r.hole_hours + r.post_set_hours), 6);
     expect(posts.manHours).toBeCloseTo(posts.crewHours * r.crew_size, 6);
     expect(t.labour.find((l) => l.task === 'gates')!.crewHours).toBe(r.gate_hours);
+    // Gate labour is per gate (issue 3's rate list: "per gate"): a double gate is one gate, not two leaves.
+    const two = ok(take({ runs: [{ lengthFt: 60, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4, offsetFt: 4 }, { runIndex: 0, widthFt: 10, kind: 'double', offsetFt: 30 }] }));
+    expect(two.gates).toEqual({ single: 1, double: 1, leaves: 3 });
+    expect(two.labour.find((l) => l.task === 'gates')!.crewHours).toBe(2 * r.gate_hours);
   });
 
   it('warns when a stretch left beside a gate puts posts closer than the infill allows', () => {
@@ -320,6 +324,35 @@ describe('bad input', () => {
       const once = recipeSchema.parse(saved(kind));
       expect(recipeSchema.parse(once), kind).toEqual(once);
     }
+  });
+});
+
+describe('the REFERENCES worked examples, through the engine (by arithmetic)', () => {
+  it('20 holes 10 in across with 24 in of concrete around 4×4 posts take 31 bags of 80 lb pooled, 40 rounded hole by hole', () => {
+    // 1590.96 in³ = 0.9207 ft³ a hole; an 80 lb bag yields about 0.60 ft³ (manufacturers' published yield, as
+    // repeated in trade guides): 1.53 bags a hole, 30.7 for 20 holes.
+    const base = recipeFor('wood_privacy');
+    const r: Recipe = {
+      ...base, embedment: { rule: 'fixed_depth', depthIn: 24 }, minEmbedmentIn: 0,
+      hole: { ...base.hole, diameterIn: 10, gravelBase: 'below_embedment', concrete: { label: 'Packaged concrete 80 lb', sku: 'CONC-80', bagLb: 80, bagYieldCuFt: 0.6 } },
+      wastePct: { ...base.wastePct, concrete: 0 },
+    };
+    const t = ok(take({ runs: [{ lengthFt: 152, heightIn: 48 }] }, 'wood_privacy', r));
+    expect(t.holes).toBe(20);
+    for (const g of t.postGroups) {
+      expect(g.fillDepthIn).toBe(24);
+      expect(g.concreteCuInEach).toBeCloseTo(1590.96, 2);
+    }
+    expect(t.concrete!.cuFt).toBeCloseTo(20 * 0.9207, 3);
+    expect(t.concrete!.bags).toBe(31);
+    expect(t.holes * Math.ceil(t.concrete!.cuFt / t.holes / 0.6)).toBe(40);
+  });
+
+  it('twelve 4×4 × 10 ft posts are 160 board feet (4 × 4 × 10 ÷ 12 = 13.333 each)', () => {
+    const t = ok(take({ runs: [{ lengthFt: 40, heightIn: 72 }, { lengthFt: 30, heightIn: 72, connectsToPrevious: true }], gates: [{ runIndex: 1, widthFt: 4 }] }));
+    const posts = t.materials.find((m) => m.sku === 'PT-4X4-10')!;
+    expect(posts.buyQty).toBe(12);
+    expect(posts.boardFeet).toBeCloseTo(160, 6);
   });
 });
 
