@@ -33,11 +33,13 @@ export function boardFeet(nominalThicknessIn: number, nominalWidthIn: number, le
 }
 
 /**
- * Dressed (dry) size of a nominal softwood dimension, in inches: 1 → ¾, 2 → 1½, 4 → 3½,
- * 6 → 5½, 8 → 7¼, 10 → 9¼, 12 → 11¼ (the standard sizes of the softwood lumber standard).
+ * Dressed (dry) size of a nominal softwood dimension, in inches: 1 → ¾, 5/4 → 1, 6/4 → 1¼,
+ * 2 → 1½, 4 → 3½, 6 → 5½, 8 → 7¼, 10 → 9¼, 12 → 11¼ (the standard sizes of the softwood lumber
+ * standard).
  */
 export function actualLumberIn(nominalIn: number): number {
   if (nominalIn <= 1) return 0.75;
+  if (nominalIn < 2) return nominalIn - 0.25;
   if (nominalIn <= 7) return nominalIn - 0.5;
   return nominalIn - 0.75;
 }

@@ -35,10 +35,18 @@ describe('POST /api/takeoff', () => {
   it('takes a whole recipe inline, so a style can be tried before it is saved', async () => {
     const style = (await co.estimator.get(`/api/styles/${wood}`)).body;
     const recipe = { ...style.recipe, spacingFt: 6 };
-    const r = await co.bookkeeper.post('/api/takeoff', { recipe, runs: [{ lengthFt: 36, heightIn: 72 }] });
+    const rates = (await co.estimator.get(`/api/rates/${wood}`)).body.current.values;
+    const r = await co.bookkeeper.post('/api/takeoff', { recipe, rates, runs: [{ lengthFt: 36, heightIn: 72 }] });
     expect(r.status).toBe(200);
     expect(r.body.takeoff.bays).toBe(6);
     expect(r.body.style).toBeNull();
+    expect(r.body.rates).toEqual(rates);
+    // Every answer carries the caution, for a reader of the numbers alone.
+    expect(r.body.notice).toMatch(/not an engineering approval/);
+    // An inline recipe has no labour rates of its own: a clear field error, not another style's rates.
+    const noRates = await co.bookkeeper.post('/api/takeoff', { recipe, runs: [{ lengthFt: 36, heightIn: 72 }] });
+    expect(noRates.status).toBe(400);
+    expect(noRates.body.error.fields.rates).toMatch(/labour rates/);
   });
 
   it('answers field errors for bad geometry, never a 500 or NaN', async () => {
@@ -164,6 +172,24 @@ describe('bids on a job', () => {
     const line = o.body.lines.find((l: { key: string }) => l.key === 'material:PT-4X4-10');
     expect(line).toMatchObject({ overridden: true, priced: true, unitCostCents: 1650, note: 'phoned the yard' });
     expect((await c.estimator.post(`/api/jobs/${job.id}/bids/${o.body.id}/accept`, {})).status).toBe(200);
+  });
+
+  it('prints a split-rail bid without concrete, worded from its recipe, and a wood bid set in concrete', async () => {
+    const split = await styleId(co.estimator, 'split_rail');
+    const job = await makeJob(co.estimator, customerId, { fenceStyleId: split });
+    const b = await co.estimator.post(`/api/jobs/${job.id}/bids`, { styleId: split, runs: [{ lengthFt: 100, heightIn: 48 }], gates: [], target: { mode: 'margin', pct: 30 } });
+    expect(b.status).toBe(201);
+    const page = await co.bookkeeper.get(`/jobs/${job.id}/bids/${b.body.id}/print`);
+    expect(page.status).toBe(200);
+    const scope = /data-testid="print-scope"[^>]*>([^<]*)</.exec(page.text)?.[1] ?? '';
+    expect(scope).toMatch(/posts \(Cedar split-rail post, 3-hole\) set in tamped earth, without concrete, on a 4 in gravel base/);
+    expect(page.text).not.toMatch(/in concrete/);
+    expect(page.text).toMatch(/not an engineering approval/);
+
+    const wjob = await makeJob(co.estimator, customerId);
+    const w = (await co.estimator.post(`/api/jobs/${wjob.id}/bids`, twoRunsAndAGate(wood))).body;
+    const wpage = await co.estimator.get(`/jobs/${wjob.id}/bids/${w.id}/print`);
+    expect(/data-testid="print-scope"[^>]*>([^<]*)</.exec(wpage.text)?.[1]).toMatch(/11 posts \(4×4 treated post\) set in concrete on a 4 in gravel base/);
   });
 
   it('gives concurrent saves of one job distinct version numbers', async () => {

@@ -36,9 +36,10 @@ export type BidInput = z.output<typeof bidInput>;
 export const takeoffRequest = layoutInput.extend({
   styleId: z.number().int().positive().optional(),
   recipe: recipeSchema.optional(),
-  /** labour rates to use; a saved style's current rates when left out */
+  /** labour rates to use: a saved style's current rates when left out; required with an inline recipe, which has none of its own */
   rates: ratesSchema.optional(),
-}).refine((r) => (r.styleId === undefined) !== (r.recipe === undefined), { path: ['styleId'], message: 'Give either styleId or a recipe, not both.' });
+}).refine((r) => (r.styleId === undefined) !== (r.recipe === undefined), { path: ['styleId'], message: 'Give either styleId or a recipe, not both.' })
+  .refine((r) => r.recipe === undefined || r.rates !== undefined, { path: ['rates'], message: 'Give the labour rates with an inline recipe; only a saved style has rates of its own.' });
 
 export const bidPatch = z.strictObject({
   status: z.enum(['draft', 'sent', 'declined']).optional(),

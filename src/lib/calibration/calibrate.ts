@@ -30,7 +30,8 @@ export interface FinishedJob {
   holes: number;
   /** feet of fence, gate openings excluded (what rails and infill are priced on) */
   fenceFt: number;
-  gateLeaves: number;
+  /** gates, a double gate counted once (gate labour is priced per gate) */
+  gates: number;
   /** The rate values the bid was priced with. */
   bidRates: Partial<Rates>;
   /** Person-hours by the bid's labour task: priced, and logged by the crews. */
@@ -59,7 +60,7 @@ export const WASTE_LABELS: Record<WasteKey, string> = {
 export const TASK_RATES: Record<LabourTask, { kinds: RateKind[]; per: string; quantity: (j: FinishedJob) => number }> = {
   posts: { kinds: ['hole_hours', 'post_set_hours'], per: 'hole', quantity: (j) => j.holes },
   rails_infill: { kinds: ['rails_infill_hours_per_ft'], per: 'ft of fence', quantity: (j) => j.fenceFt },
-  gates: { kinds: ['gate_hours'], per: 'gate leaf', quantity: (j) => j.gateLeaves },
+  gates: { kinds: ['gate_hours'], per: 'gate', quantity: (j) => j.gates },
   setup: { kinds: ['setup_hours'], per: 'job', quantity: () => 1 },
 };
 
@@ -74,7 +75,7 @@ export const MIN_CHANGE = { labour: 0.02, waste: 0.01 } as const;
 export interface ItemJob {
   jobId: number;
   code: string;
-  /** The job's own measure: holes, feet, leaves, 1 job; materials: the takeoff at bid prices, cents. */
+  /** The job's own measure: holes, feet, gates, 1 job; materials: the takeoff at bid prices, cents. */
   quantity: number;
   /** Bid and actual in the item's unit (crew-h per unit; for materials bought ÷ takeoff). */
   bid: number;

@@ -10,9 +10,9 @@ export type Rates = Record<RateKind, number>;
 
 export const RATE_INFO: Record<RateKind, { label: string; unit: string; min: number; max: number; integer?: boolean }> = {
   hole_hours: { label: 'Dig a hole', unit: 'crew-h per hole', min: 0, max: 8 },
-  post_set_hours: { label: 'Set a post in concrete', unit: 'crew-h per post', min: 0, max: 8 },
+  post_set_hours: { label: 'Set a post (plumb, fill and brace)', unit: 'crew-h per post', min: 0, max: 8 },
   rails_infill_hours_per_ft: { label: 'Rails and infill', unit: 'crew-h per ft of fence', min: 0, max: 4 },
-  gate_hours: { label: 'Build and hang a gate leaf', unit: 'crew-h per leaf', min: 0, max: 40 },
+  gate_hours: { label: 'Build and hang a gate', unit: 'crew-h per gate', min: 0, max: 40 },
   setup_hours: { label: 'Set-up and clean-up', unit: 'crew-h per job', min: 0, max: 80 },
   crew_size: { label: 'Crew size', unit: 'people', min: 1, max: 12, integer: true },
   crew_wage_cents: { label: 'Crew wage', unit: 'cents per person-hour', min: 0, max: 50_000, integer: true },

@@ -30,6 +30,12 @@ export const embedmentRule = z.discriminatedUnion('rule', [
   /** A share of the height above grade goes in the ground. */
   z.strictObject({ rule: z.literal('fraction_of_height'), fraction: num(0.1, 1.5) }),
   z.strictObject({ rule: z.literal('fixed_depth'), depthIn: num(6, 72) }),
+  /**
+   * A base depth plus so much for each foot of height over a threshold, a part of a foot
+   * counting as a foot (the deeper reading): ASTM F567's chain-link posts are 24 in plus 3 in per
+   * foot over 4 ft.
+   */
+  z.strictObject({ rule: z.literal('depth_plus_per_ft'), baseIn: num(6, 72), perFtIn: num(0, 24), overHeightIn: num(0, 144) }),
   /** Posts cut from one stock length in equal pieces (a 10 ft post in halves); depth is what is left below grade. */
   z.strictObject({ rule: z.literal('stock_split'), stockFt: num(4, 24), pieces: z.number().int().min(1).max(4) }),
 ]);
@@ -50,7 +56,12 @@ export const infillSpec = z.discriminatedUnion('kind', [
   z.strictObject({ kind: z.literal('pickets'), label, sku, widthIn: num(0.5, 12), gapIn: num(0, 12), lengthFt: num(1, 16) }),
   /** Panels one per bay (prefab), or cut from longer panels (cuttable welded wire). */
   z.strictObject({ kind: z.literal('panels'), label, sku, widthFt: num(1, 20), heightIn: num(12, 120), cuttable: z.boolean() }),
-  z.strictObject({ kind: z.literal('roll'), label, sku, rollLengthFt: num(5, 500) }),
+  /** Fabric sold in rolls of one length and several heights; each run takes the lowest roll at least as high as the fence. */
+  z.strictObject({
+    kind: z.literal('roll'),
+    rollLengthFt: num(5, 500),
+    rolls: z.array(z.strictObject({ heightIn: num(12, 144), label, sku })).min(1, 'Add at least one roll height.').max(12),
+  }),
   z.strictObject({ kind: z.literal('none') }),
 ]);
 export type InfillSpec = z.output<typeof infillSpec>;
@@ -65,7 +76,14 @@ export const gateSpec = z.strictObject({ label, sku, maxWidthFt: num(1, 40) });
 export const WASTE_KEYS = ['posts', 'rails', 'infill', 'cap', 'concrete', 'gravel', 'hardware', 'gates'] as const;
 export type WasteKey = (typeof WASTE_KEYS)[number];
 
-export const recipeSchema = z.strictObject({
+export const GRAVEL_BASES = ['below_embedment', 'within_embedment'] as const;
+export type GravelBase = (typeof GRAVEL_BASES)[number];
+export const GRAVEL_BASE_LABELS: Record<GravelBase, string> = {
+  below_embedment: 'Under the post (hole = embedment + gravel)',
+  within_embedment: "Around the post's foot (hole = embedment)",
+};
+
+const recipeObject = z.strictObject({
   heightMinIn: num(12, 144),
   heightMaxIn: num(12, 144),
   /** Most a bay may span, post centre to post centre. */
@@ -82,6 +100,14 @@ export const recipeSchema = z.strictObject({
     diameterIn: num(2, 36).nullable(),
     diameterFactor: num(1, 6),
     gravelDepthIn: num(0, 12),
+    /**
+     * Where the gravel base sits. below_embedment: under the post's buried length (hole depth =
+     * embedment + gravel; the post stands on the gravel). within_embedment: around the post's
+     * foot, inside the buried length (hole depth = embedment; concrete over the rest), as the
+     * trade words the "posts cut from 10 ft stock in halves bury about 18 in, including a 3–4 in
+     * gravel base" rule (common practice, no source).
+     */
+    gravelBase: z.enum(GRAVEL_BASES),
     concrete: z.strictObject({ label, sku, bagLb: num(10, 100), bagYieldCuFt: num(0.05, 1.5) }).nullable(),
     gravel: z.strictObject({ label, sku, bagCuFt: num(0.1, 2) }).nullable(),
   }),
@@ -99,7 +125,30 @@ export const recipeSchema = z.strictObject({
   if (r.infill.kind === 'panels' && !r.infill.cuttable && r.infill.widthFt < r.minBayFt)
     ctx.addIssue({ code: 'custom', path: ['infill', 'widthFt'], message: 'The panel is narrower than the shortest bay.' });
 });
-export type Recipe = z.output<typeof recipeSchema>;
+
+/**
+ * Recipes saved before a field existed read as they meant then, so stored styles and the
+ * recipes kept on saved bids keep working: a missing gravelBase is within the embedment for
+ * posts cut from stock (the trade states that rule with the gravel inside the buried length)
+ * and below it for every other rule; a roll infill with one item code and no height becomes
+ * one roll as high as the tallest fence the style builds, which is what it was bought as.
+ */
+export function upgradeRecipe(raw: unknown): unknown {
+  if (!raw || typeof raw !== 'object' || Array.isArray(raw)) return raw;
+  let r = raw as Record<string, any>;
+  const hole = r.hole;
+  if (hole && typeof hole === 'object' && !Array.isArray(hole) && !('gravelBase' in hole))
+    r = { ...r, hole: { ...hole, gravelBase: r.embedment?.rule === 'stock_split' ? 'within_embedment' : 'below_embedment' } };
+  const inf = r.infill;
+  if (inf && typeof inf === 'object' && inf.kind === 'roll' && !('rolls' in inf) && 'sku' in inf) {
+    const { sku: itemSku, label: itemLabel, ...rest } = inf;
+    r = { ...r, infill: { ...rest, rolls: [{ heightIn: r.heightMaxIn, label: itemLabel, sku: itemSku }] } };
+  }
+  return r;
+}
+
+export const recipeSchema = z.preprocess(upgradeRecipe, recipeObject);
+export type Recipe = z.output<typeof recipeObject>;
 
 /** Every price-book sku a recipe refers to, with the name it uses for it. */
 export function recipeSkus(r: Recipe): { sku: string; label: string }[] {
@@ -108,7 +157,8 @@ export function recipeSkus(r: Recipe): { sku: string; label: string }[] {
   post(r.posts.line); post(r.posts.terminal); post(r.posts.gate);
   r.rails?.stock.forEach((s) => out.push({ sku: s.sku, label: `${r.rails!.label} ${s.lengthFt} ft` }));
   r.cap?.stock.forEach((s) => out.push({ sku: s.sku, label: `${r.cap!.label} ${s.lengthFt} ft` }));
-  if (r.infill.kind !== 'none') out.push({ sku: r.infill.sku, label: r.infill.label });
+  if (r.infill.kind === 'roll') r.infill.rolls.forEach((x) => out.push({ sku: x.sku, label: x.label }));
+  else if (r.infill.kind !== 'none') out.push({ sku: r.infill.sku, label: r.infill.label });
   if (r.hole.concrete) out.push({ sku: r.hole.concrete.sku, label: r.hole.concrete.label });
   if (r.hole.gravel) out.push({ sku: r.hole.gravel.sku, label: r.hole.gravel.label });
   r.hardware.forEach((h) => out.push({ sku: h.sku, label: h.label }));

@@ -45,6 +45,8 @@ export interface PostGroup {
   embedmentIn: number;
   holeDiameterIn: number;
   holeDepthIn: number;
+  /** inches of the hole filled around the post above the gravel (concrete, or tamped earth when the style has none) */
+  fillDepthIn: number;
   /** in³ of concrete in one hole */
   concreteCuInEach: number;
   /** in³ of gravel in one hole */
@@ -147,6 +149,7 @@ function postLengthFor(recipe: Recipe, heightIn: number, site: SiteRules): { emb
     case 'fraction_of_length': emb = (heightIn * e.fraction) / (1 - e.fraction); break;
     case 'fraction_of_height': emb = heightIn * e.fraction; break;
     case 'fixed_depth': emb = e.depthIn; break;
+    case 'depth_plus_per_ft': emb = e.baseIn + e.perFtIn * Math.max(0, Math.ceil((heightIn - e.overHeightIn) / 12 - EPS)); break;
     case 'stock_split': emb = (ftToIn(e.stockFt) - (e.pieces - 1) * recipe.kerfIn) / e.pieces - heightIn; break;
   }
   emb = Math.max(emb, recipe.minEmbedmentIn, site.frostDepthIn ?? 0);
@@ -288,12 +291,19 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     const area = Math.PI * (holeDiameterIn / 2) ** 2 - crossSectionSqIn(spec);
     if (area <= 0) return { ok: false, fields: { 'recipe.hole.diameterIn': `A ${holeDiameterIn} in hole is not wider than the ${spec.label}.` }, warnings };
     if (embedmentIn <= 0) return { ok: false, fields: { [`runs.${n.runIndex}.heightIn`]: 'Posts cut this way are too short for this height.' }, warnings };
+    const gravelIn = recipe.hole.gravelDepthIn;
+    const within = recipe.hole.gravelBase === 'within_embedment';
+    if (within && gravelIn >= embedmentIn - EPS)
+      return { ok: false, fields: { 'recipe.hole.gravelDepthIn': `A ${gravelIn} in gravel base fills the whole ${formatFeetInches(embedmentIn)} the post goes in the ground.` }, warnings };
+    // Within: the post's foot stands in the gravel and the hole is as deep as the post goes.
+    // Below: the post stands on the gravel and the hole is deeper by the gravel.
+    const holeDepthIn = within ? embedmentIn : embedmentIn + gravelIn;
     groups.set(key, {
       kind: n.kind, spec: spec.label, heightIn: n.heightIn, count: 1, lengthIn: r4(lengthIn), embedmentIn: r4(embedmentIn), holeDiameterIn,
-      holeDepthIn: r4(embedmentIn + recipe.hole.gravelDepthIn),
-      // Concrete fills the hole above the gravel, around the post's buried length.
-      concreteCuInEach: area * embedmentIn,
-      gravelCuInEach: cylinderCuIn(holeDiameterIn, recipe.hole.gravelDepthIn),
+      holeDepthIn: r4(holeDepthIn), fillDepthIn: r4(holeDepthIn - gravelIn),
+      // Concrete fills the hole above the gravel, around the post.
+      concreteCuInEach: area * (holeDepthIn - gravelIn),
+      gravelCuInEach: within ? area * gravelIn : cylinderCuIn(holeDiameterIn, gravelIn),
     });
   }
   const postGroups = [...groups.values()];
@@ -439,7 +449,23 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     const tall = runResults.find((r) => r.heightIn > infill.heightIn + EPS);
     if (tall) warnings.push(`${tall.label}: ${tall.heightIn} in is taller than the ${infill.heightIn} in ${infill.label}.`);
   } else if (infill.kind === 'roll') {
-    if (fenceFt) add({ sku: infill.sku, label: infill.label, group: 'infill', unit: 'roll', takeoffQty: fenceFt / infill.rollLengthFt, wasteKey: 'infill', note: `${r4(fenceFt)} ft of fence` });
+    // Each run takes the lowest roll at least as high as its fence; feet of fence are pooled by roll.
+    const rolls = [...infill.rolls].sort((a, b) => a.heightIn - b.heightIn);
+    const tallest = rolls[rolls.length - 1];
+    const feetBySku = new Map<string, { roll: (typeof rolls)[number]; ft: number }>();
+    for (const r of runResults) {
+      if (r.fenceFt <= EPS) continue;
+      let roll = rolls.find((x) => x.heightIn >= r.heightIn - EPS);
+      if (!roll) {
+        roll = tallest;
+        warnings.push(`${r.label}: no fabric roll of this style is ${r.heightIn} in high (the highest is ${tallest.heightIn} in, ${tallest.label}); add a roll that height or lower the fence.`);
+      }
+      const e = feetBySku.get(roll.sku) ?? { roll, ft: 0 };
+      e.ft += r.fenceFt;
+      feetBySku.set(roll.sku, e);
+    }
+    for (const { roll, ft } of feetBySku.values())
+      add({ sku: roll.sku, label: roll.label, group: 'infill', unit: 'roll', takeoffQty: ft / infill.rollLengthFt, wasteKey: 'infill', note: `${r4(ft)} ft of fence, ${roll.heightIn} in fabric` });
   }
 
   const holes = nodes.length;
@@ -480,7 +506,8 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
   const crew: Record<LabourTask, number> = {
     posts: digHours + posts.total * rates.post_set_hours,
     rails_infill: fenceFt * rates.rails_infill_hours_per_ft,
-    gates: gates.leaves * rates.gate_hours,
+    // Per gate, as the issue's rate list has it: a double gate is one gate.
+    gates: (gates.single + gates.double) * rates.gate_hours,
     setup: rates.setup_hours,
   };
   const labour: LabourLine[] = LABOUR_TASKS.map((task) => ({ task, crewHours: r4(crew[task]), manHours: r4(crew[task] * rates.crew_size) }));

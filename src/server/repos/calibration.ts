@@ -28,7 +28,7 @@ export async function finishedJobs(companyId: string, q: Q = db()): Promise<{ jo
     .whereIn('j.status', FINISHED_STATUSES as string[])
     .orderBy('j.code')
     .select('j.id', 'j.code', 'j.title', 'b.style_id', 's.name as style_name', q.raw('COALESCE(j.completed_date, j.closed_date, j.start_date, j.decided_date) AS completed_on'),
-      'b.id as bid_id', 'b.crew_size', 'b.hole_count', 'b.fence_ft', 'b.gate_leaves', 'b.rental_days', 'b.takeoff');
+      'b.id as bid_id', 'b.crew_size', 'b.hole_count', 'b.fence_ft', 'b.gate_count', 'b.rental_days', 'b.takeoff');
   if (!base.length) return { jobs: [], unitCosts: [] };
   const jobIds = base.map((r) => Number(r.id));
   const bidIds = base.map((r) => Number(r.bid_id));
@@ -74,7 +74,7 @@ export async function finishedJobs(companyId: string, q: Q = db()): Promise<{ jo
       estimated: f?.estimated ?? { material: 0, labour: 0, rental: 0, other: 0 },
       actual: f?.actual ?? { material: 0, labour: 0, rental: 0, other: 0 },
       crewSize: Number(r.crew_size), crewHourCostCents: crewHours > 0 ? cost / crewHours : 0,
-      holes: Number(r.hole_count), fenceFt: Number(r.fence_ft), gateLeaves: Number(r.gate_leaves),
+      holes: Number(r.hole_count), fenceFt: Number(r.fence_ft), gates: Number(r.gate_count),
       bidRates: Object.fromEntries(snaps.filter((s) => Number(s.bid_id) === bidId).map((s) => [s.kind as RateKind, Number(s.value)])),
       labour: Object.fromEntries(taskRows.map((l) => [l.task, { bidManHours: Number(l.man_hours), actualManHours: logged(TIME_TASK_OF[l.task as LabourTask] ?? l.task) }])),
       materials,

@@ -25,8 +25,9 @@ const PRICES: Record<string, [number, string, string?, CostCategory?, string?]> 
   'PT-2X6-08': [899, YARD], 'PT-2X6-12': [1398, YARD], 'PT-2X6-16': [1949, YARD],
   'CED-PKT-1X6-6': [389, YARD], 'CONC-50': [649, YARD, 'bag'], 'GRAVEL-05': [548, YARD, 'bag'], 'SCREW-EXT-5LB': [4299, YARD, 'box'],
   'STAPLE-1LB': [899, YARD, 'box'], 'WW-PANEL-16': [3899, FENCE], 'SR-POST-3H-7': [2450, FENCE], 'SR-RAIL-10': [1675, FENCE],
-  'CL-LINE-6': [1895, FENCE], 'CL-LINE-8': [2395, FENCE], 'CL-TERM-7': [3295, FENCE], 'CL-TERM-9': [3995, FENCE], 'CL-RAIL-21': [3450, FENCE],
-  'CL-FABRIC-50': [12900, FENCE, 'roll'], 'CL-TERM-KIT': [1850, FENCE, 'kit'], 'CL-LOOP-CAP': [325, FENCE], 'CL-TIES-100': [1195, FENCE, 'bag'],
+  'CL-LINE-6': [1895, FENCE], 'CL-LINE-8': [2395, FENCE], 'CL-LINE-9': [2695, FENCE], 'CL-TERM-7': [3295, FENCE], 'CL-TERM-9': [3995, FENCE], 'CL-RAIL-21': [3450, FENCE],
+  'CL-FABRIC-36': [9900, FENCE, 'roll'], 'CL-FABRIC-42': [11400, FENCE, 'roll'], 'CL-FABRIC-48': [12900, FENCE, 'roll'], 'CL-FABRIC-60': [15900, FENCE, 'roll'], 'CL-FABRIC-72': [18900, FENCE, 'roll'],
+  'CL-TERM-KIT': [1850, FENCE, 'kit'], 'CL-LOOP-CAP': [325, FENCE], 'CL-TIES-100': [1195, FENCE, 'bag'],
   'CL-GATE-4': [13900, FENCE], 'CL-GATE-DBL': [38900, FENCE], 'VIN-POST-9': [5490, FENCE], 'VIN-PANEL-6X8': [14900, FENCE], 'VIN-CAP': [690, FENCE],
   'VIN-GATE-4': [32900, FENCE], 'VIN-GATE-DBL': [74900, FENCE], 'ORN-POST-6': [3890, FENCE], 'ORN-POST-8': [4790, FENCE], 'ORN-PANEL-4X6': [15900, FENCE],
   'ORN-BRACKET': [425, FENCE], 'ORN-GATE-4': [27900, FENCE], 'ORN-GATE-DBL': [69900, FENCE], 'GATE-WOOD-4': [16500, YARD, 'kit'],
@@ -35,6 +36,8 @@ const PRICES: Record<string, [number, string, string?, CostCategory?, string?]> 
   'PERMIT-FENCE': [7500, 'City of Wrenfield (demo)', 'each', 'permit', 'Wrenfield fence permit fee'],
   'DUMP-LOAD': [6500, RENTAL, 'load', 'disposal', 'Brush and old-fence dump load'],
 };
+
+const LATER_ITEMS = new Set(['CL-LINE-9', 'CL-FABRIC-36', 'CL-FABRIC-42', 'CL-FABRIC-60', 'CL-FABRIC-72']);
 
 /** A typical height (in) per style kind for the demo layouts. */
 const HEIGHTS: Record<string, number[]> = { wood_privacy: [72, 72, 60], split_rail: [48, 42], wire_panel: [42, 48], chain_link: [48, 60], vinyl: [72, 60], ornamental: [48, 54] };
@@ -74,17 +77,19 @@ export async function seedDemoBids(knex: Knex, today = new Date()): Promise<void
     const styles = await trx('fence_styles').where('organization_id', DEMO.orgId).orderBy('id').select('id', 'kind', 'name', 'recipe');
     for (const s of styles) if (!s.recipe && DEFAULT_RECIPES[s.kind]) await trx('fence_styles').where('id', s.id).update({ recipe: JSON.stringify(DEFAULT_RECIPES[s.kind]) });
 
+    // Items added to the demo later draw their dates from their own stream, so the rest of the demo stays as it was.
+    const later = rng(DEMO.seed + 31);
     const names = new Map<string, string>();
     for (const s of styles) for (const x of recipeSkus(DEFAULT_RECIPES[s.kind])) names.set(x.sku, x.label);
     for (const [sku, [cents, supplier, unit, category, name]] of Object.entries(PRICES)) {
       const sup = await supplierId(DEMO.orgId, supplier, trx);
-      const seen = iso(new Date(now.getTime() - r.int(3, 75) * DAY));
+      const seen = iso(new Date(now.getTime() - (LATER_ITEMS.has(sku) ? later : r).int(3, 75) * DAY));
       const [id] = await trx('price_book_items').insert({
         organization_id: DEMO.orgId, sku, name: name ?? names.get(sku) ?? sku, category: category ?? 'material', unit: unit ?? 'each',
         unit_cost_cents: cents, supplier_id: sup, last_seen_on: seen, created_at: new Date(now.getTime() - 500 * DAY),
       });
       // A few prices went up lately; the estimator has not looked yet.
-      if (['PT-4X4-10', 'CED-PKT-1X6-6', 'CONC-50', 'CL-FABRIC-50'].includes(sku)) {
+      if (['PT-4X4-10', 'CED-PKT-1X6-6', 'CONC-50', 'CL-FABRIC-48'].includes(sku)) {
         await trx('price_book_changes').insert({
           organization_id: DEMO.orgId, item_id: id, old_unit_cost_cents: Math.round(cents * 0.93), new_unit_cost_cents: cents, supplier_id: sup,
           source: sku === 'CONC-50' ? 'csv_import' : 'manual', source_ref: sku === 'CONC-50' ? 'yard-price-list.csv' : null, changed_by: owner,
@@ -141,7 +146,7 @@ export async function seedDemoBids(knex: Knex, today = new Date()): Promise<void
           styleId: Number(style.id), title: v ? 'Revised after the walk-through' : 'Fence as measured', runs, gates, extras,
           overrides: v === 0 && statuses.length > 1 ? [] : r.chance(0.15) ? [{ key: 'material:CONC-50', qty: null, unitCostCents: 599, note: 'Pallet price from the yard' }] : [],
           target: { mode: 'margin', pct: marginPct, includeTax: true },
-          scope: `Supply and install ${runs.reduce((a, x) => a + x.lengthFt, 0)} ft of ${style.name.toLowerCase()}${gates.length ? ` with ${gates.length} gate${gates.length > 1 ? 's' : ''}` : ''}; set posts in concrete over gravel; clean up the site.`,
+          scope: `Supply and install ${runs.reduce((a, x) => a + x.lengthFt, 0)} ft of ${style.name.toLowerCase()}${gates.length ? ` with ${gates.length} gate${gates.length > 1 ? 's' : ''}` : ''}; set posts ${recipe.hole.concrete ? 'in concrete' : 'in tamped earth, without concrete,'} over gravel; clean up the site.`,
         });
         const at = new Date(baseDay.getTime() - (statuses.length - 1 - v) * 2 * DAY);
         const rates = await ratesAt(trx, Number(style.id), style.kind, at);

@@ -5,7 +5,6 @@ import { AppError, notFound } from '../../lib/errors.ts';
 import { computeBid, type BidInput, type takeoffRequest } from '../../lib/bids/schema.ts';
 import { rulesFrom, todayIn } from '../../lib/bids/rules.ts';
 import { computeTakeoff } from '../../lib/takeoff/takeoff.ts';
-import { ratesFor } from '../../lib/takeoff/defaults.ts';
 import type { Rates } from '../../lib/takeoff/rates.ts';
 import { getSettings } from '../repos/settings.ts';
 import * as bids from '../repos/bids.ts';
@@ -24,6 +23,10 @@ export async function companyToday(companyId: string): Promise<string> {
   return todayIn(r?.timezone ?? 'UTC', new Date());
 }
 
+/** Sent with every takeoff, so a reader of the numbers alone still gets the caution. */
+export const TAKEOFF_NOTICE =
+  "Depths and quantities are planning defaults from the style's recipe, not an engineering approval. Locate buried utilities before digging; permits, local codes, manufacturers' instructions and licensed professionals govern.";
+
 /** POST /api/takeoff: the pure takeoff for a saved style or an inline recipe; nothing is saved. */
 export async function takeoff(actor: Actor, req: z.output<typeof takeoffRequest>) {
   const { site } = await companyRules(actor.companyId);
@@ -35,11 +38,11 @@ export async function takeoff(actor: Actor, req: z.output<typeof takeoffRequest>
       throw err;
     });
     rates = req.rates ?? (await ratesOf(actor.companyId, style)).values;
-  } else rates = req.rates ?? ratesFor('wood_privacy');
+  } else rates = req.rates!; // the schema requires rates with an inline recipe
   const recipe = style ? style.recipe : req.recipe!;
   const t = computeTakeoff({ runs: req.runs, gates: req.gates, closed: req.closed }, recipe, rates, site);
   if (!t.ok) throw new AppError('BAD_INPUT', 'Some runs or gates need attention.', t.fields);
-  return { style: style ? { id: style.id, name: style.name } : null, rates, site, takeoff: t };
+  return { style: style ? { id: style.id, name: style.name } : null, rates, site, takeoff: t, notice: TAKEOFF_NOTICE };
 }
 
 /** Everything the bid builder needs to compute in the browser exactly as the server will. */

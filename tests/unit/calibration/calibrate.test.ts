@@ -27,7 +27,7 @@ function fj(id: number, f: { posts?: number; rails?: number; gates?: number; set
     jobId: id, code: `J-${id}`, title: 'Fence', styleId: 7, styleName: 'Wood', completedOn: f.completedOn ?? '2026-06-01',
     estimatedCostCents: 100_000 + 11_000 + 72_000, actualCostCents: materialActual + labourActual,
     estimated: { ...zero, material: 111_000, labour: 72_000 }, actual: { ...zero, material: materialActual, labour: labourActual },
-    crewSize: 2, crewHourCostCents: 8000, holes: 10, fenceFt: 100, gateLeaves: 1,
+    crewSize: 2, crewHourCostCents: 8000, holes: 10, fenceFt: 100, gates: 1,
     bidRates: { hole_hours: 0.15, post_set_hours: 0.05, rails_infill_hours_per_ft: 0.05, gate_hours: 1, setup_hours: 1 },
     labour: Object.fromEntries(Object.entries(bid).map(([t, h]) => [t, { bidManHours: h * 2, actualManHours: actual[t as keyof typeof actual] * 2 }])),
     materials: { concrete: { wastePct: 10, takeoffCents: 10_000, buyCents: 11_000, boughtCents: bought }, posts: { wastePct: 10, takeoffCents: 100_000 / 1.1, buyCents: 100_000, boughtCents: 100_000 } },

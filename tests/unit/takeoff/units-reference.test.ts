@@ -44,6 +44,10 @@ describe('nominal and actual softwood sizes', () => {
     expect([actualLumberIn(nt), actualLumberIn(nw)]).toEqual([t, w]);
   });
 
+  it('5/4 and 6/4 nominal thicknesses dress to 1 and 1¼ in (PS 20, from memory)', () => {
+    expect([1.25, 1.5].map(actualLumberIn)).toEqual([1, 1.25]);
+  });
+
   it('8, 10 and 12 in nominal widths dress to 7¼, 9¼ and 11¼ in (PS 20)', () => {
     expect([8, 10, 12].map(actualLumberIn)).toEqual([7.25, 9.25, 11.25]);
   });

@@ -60,7 +60,7 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
         <h2 id="how-title" className="mb-1">How the suggestions are made</h2>
         <p className="max-w-4xl text-galv-700">
           For each labour task and material group, every finished job with an accepted bid gives one achieved rate: crew-hours per hole, per foot of fence,
-          per gate leaf or per job; for materials, what was bought against the bid's own buy list, so a whole roll or box is not counted as waste.
+          per gate or per job; for materials, what was bought against the bid's own buy list, so a whole roll or box is not counted as waste.
           The suggestion is the <strong>median</strong> of those rates: one job that hit a rock ledge hardly moves it, where it would drag a mean.
           Fewer than {data.minJobs} jobs give no suggestion. The <strong>backtest</strong> judges each job by a rate fitted on the other jobs only
           (leave one out) and reports the mean absolute error of the bids' cost against what the jobs cost, and its bias (negative: bids ran low).

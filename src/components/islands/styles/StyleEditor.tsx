@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { recipeSchema, STYLE_KINDS, STYLE_KIND_LABELS, WASTE_KEYS, type Recipe } from '../../../lib/takeoff/recipe';
+import { GRAVEL_BASES, GRAVEL_BASE_LABELS, recipeSchema, STYLE_KINDS, STYLE_KIND_LABELS, WASTE_KEYS, type Recipe } from '../../../lib/takeoff/recipe';
 import { computeTakeoff } from '../../../lib/takeoff/takeoff';
 import { layoutInput, type SiteRules } from '../../../lib/takeoff/input';
 import type { Rates } from '../../../lib/takeoff/rates';
@@ -110,20 +110,27 @@ export default function StyleEditor({ style, rates, site, canWrite }: Props) {
             <label className="block"><span className="label">Embedment rule</span>
               <select className="input" disabled={!canWrite} value={e.rule} onChange={(ev) => {
                 const rule = ev.target.value;
-                change(['embedment'], rule === 'fixed_depth' ? { rule, depthIn: 24 } : rule === 'stock_split' ? { rule, stockFt: 10, pieces: 2 } : { rule, fraction: rule === 'fraction_of_length' ? 1 / 3 : 0.5 });
+                change(['embedment'], rule === 'fixed_depth' ? { rule, depthIn: 24 } : rule === 'depth_plus_per_ft' ? { rule, baseIn: 24, perFtIn: 3, overHeightIn: 48 } : rule === 'stock_split' ? { rule, stockFt: 10, pieces: 2 } : { rule, fraction: rule === 'fraction_of_length' ? 1 / 3 : 0.5 });
               }}>
                 <option value="fraction_of_length">A share of the post's length</option>
                 <option value="fraction_of_height">A share of the height above grade</option>
                 <option value="fixed_depth">A fixed depth</option>
+                <option value="depth_plus_per_ft">A depth plus so much per foot of height</option>
                 <option value="stock_split">Posts cut from stock in equal pieces</option>
               </select>
             </label>
             {(e.rule === 'fraction_of_length' || e.rule === 'fraction_of_height') && numIn(['embedment', 'fraction'], 'Share (0.33 = a third)')}
             {e.rule === 'fixed_depth' && numIn(['embedment', 'depthIn'], 'Depth (in)')}
+            {e.rule === 'depth_plus_per_ft' && <>{numIn(['embedment', 'baseIn'], 'Depth (in)')}{numIn(['embedment', 'perFtIn'], 'Plus per foot (in)', 'A part of a foot counts as a foot.')}{numIn(['embedment', 'overHeightIn'], 'For height over (in)')}</>}
             {e.rule === 'stock_split' && <>{numIn(['embedment', 'stockFt'], 'Stock length (ft)')}{numIn(['embedment', 'pieces'], 'Pieces per stock')}</>}
             {numIn(['hole', 'diameterFactor'], 'Hole Ø ÷ post width', 'About 3 is common practice.')}
             {numIn(['hole', 'diameterIn'], 'Or a fixed hole Ø (in)', 'Empty: use the factor.')}
             {numIn(['hole', 'gravelDepthIn'], 'Gravel base (in)')}
+            <label className="block"><span className="label">Gravel base sits</span>
+              <select className="input" disabled={!canWrite} value={recipe.hole?.gravelBase ?? 'below_embedment'} onChange={(ev) => change(['hole', 'gravelBase'], ev.target.value)}>
+                {GRAVEL_BASES.map((g) => <option key={g} value={g}>{GRAVEL_BASE_LABELS[g]}</option>)}
+              </select>
+            </label>
             {recipe.hole?.concrete && <>{numIn(['hole', 'concrete', 'bagLb'], 'Concrete bag (lb)')}{numIn(['hole', 'concrete', 'bagYieldCuFt'], 'Bag yield (ft³)', 'A 50 lb bag yields about 0.375 ft³.')}</>}
           </div>
           <h2>Waste (%)</h2>
