@@ -2,6 +2,7 @@ import http from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCompany, makeCustomer, makeJob, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
+import { costTotalsDrift } from '../setup/cost-totals';
 import { stack } from '../setup/stack';
 import { multipart, ok, upload } from './receipts-helpers';
 
@@ -27,7 +28,11 @@ beforeAll(async () => {
   jobA = await makeJob(co.owner, cust.id, { code: 'J-0142', status: 'building' });
   jobB = await makeJob(co.owner, cust.id, { code: 'J-0150', status: 'building' });
 });
-afterAll(closeTestDb);
+afterAll(async () => {
+  // Every write above went through the app: the reports' cost totals must still equal their sources.
+  expect(await costTotalsDrift(co.id)).toEqual([]);
+  await closeTestDb();
+});
 
 const costOf = async (jobId: number, category = 'material') => {
   const [[r]] = await testDb().raw('SELECT COALESCE(SUM(amount_cents), 0) AS s FROM cost_lines WHERE organization_id = ? AND job_id = ? AND category = ?', [co.id, jobId, category]);

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCompany, makeCustomer, makeJob, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
+import { costTotalsDrift } from '../setup/cost-totals';
 import { labourCostCents } from '../../src/lib/labour/cost';
 import { ok, upload } from './receipts-helpers';
 
@@ -20,7 +21,11 @@ beforeAll(async () => {
   hand = await ok(co.bookkeeper.post('/api/workers', { name: 'Ines Marchetti', wageCents: 2250 }), 'worker');
   await ok(co.owner.request('PATCH', '/api/settings', { json: { labourBurdenPct: 28 } }), 'burden');
 });
-afterAll(closeTestDb);
+afterAll(async () => {
+  // Every write above went through the app: the reports' cost totals must still equal their sources.
+  expect(await costTotalsDrift(co.id)).toEqual([]);
+  await closeTestDb();
+});
 
 const MONEY = /wage|cost|cents|rate|price/i;
 function moneyKeys(value: unknown, path = ''): string[] {

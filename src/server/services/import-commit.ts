@@ -29,10 +29,27 @@ export interface CommitOptions {
  */
 export async function commitImportWith(k: Knex, actor: Actor, importId: number, opts: CommitOptions): Promise<CommitSummary> {
   try {
-    return await k.transaction((trx) => commitOnce(trx, actor, importId, opts));
+    return await k.transaction((trx) => oneAtATime(trx, actor, () => commitOnce(trx, actor, importId, opts)));
   } catch (err) {
     if ((err as { code?: string }).code !== 'ER_DUP_ENTRY') throw err;
-    return k.transaction((trx) => commitOnce(trx, actor, importId, opts));
+    return k.transaction((trx) => oneAtATime(trx, actor, () => commitOnce(trx, actor, importId, opts)));
+  }
+}
+
+/**
+ * One import commit at a time per company, across app processes (a MariaDB named lock).
+ * Each commit raises many jobs' cost totals (job_cost_totals, by trigger) in file order; two
+ * at once could take those rows in opposite orders and deadlock. The lock is let go just
+ * before COMMIT: the next commit may start, and this one asks for no new rows after that.
+ */
+async function oneAtATime<T>(trx: Knex.Transaction, actor: Actor, work: () => Promise<T>): Promise<T> {
+  const name = `tallypost:import-commit:${actor.companyId}`;
+  const [[row]] = (await trx.raw('SELECT GET_LOCK(?, 60) AS got', [name])) as unknown as [[{ got: number | null }]];
+  if (Number(row?.got) !== 1) throw new AppError('CONFLICT', 'Another import is being committed for this company. Try again in a minute.');
+  try {
+    return await work();
+  } finally {
+    await trx.raw('SELECT RELEASE_LOCK(?)', [name]);
   }
 }
 
@@ -119,6 +136,8 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
         price_book_item_id: r.price_book_item_id,
         created_by: actor.userId || null,
       }));
+      // By job, so the totals rows the triggers raise are taken in one order.
+      costRows.sort((a, b) => Number(a.job_id ?? 0) - Number(b.job_id ?? 0) || String(a.category).localeCompare(String(b.category)));
       for (let i = 0; i < costRows.length; i += 500) await trx('cost_lines').insert(costRows.slice(i, i + 500));
       addedCents += fresh.reduce((a, r) => a + Number(r.total_cents), 0);
       priceBookUpdates += await applyPriceFeedback(trx, actor, fresh.flatMap((r) => sighting(r, importId)));
