@@ -4,7 +4,7 @@
  * Runs under the stack runner (throwaway database, free ports); see src/cli/stack.ts.
  */
 import http from 'node:http';
-import { readFileSync, writeFileSync, mkdirSync } from 'node:fs';
+import { readdirSync, readFileSync, writeFileSync, mkdirSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import knexFactory, { type Knex } from 'knex';
@@ -33,10 +33,13 @@ async function signIn(email: string, password: string): Promise<string> {
   return r.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
 }
 
+/** Peak resident memory (VmHWM) of the app: the largest of its process and the processes it forked. */
 function peakRssMb(pid: number): number {
-  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
-  const kb = Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? 0);
-  return round(kb / 1024, 1);
+  const peak = (p: number) => Number(/VmHWM:\s+(\d+)/.exec(readFileSync(`/proc/${p}/status`, 'utf8'))?.[1] ?? 0);
+  const children = readdirSync('/proc').filter((d) => /^\d+$/.test(d)).map(Number).filter((p) => {
+    try { return Number(readFileSync(`/proc/${p}/stat`, 'utf8').split(') ')[1].split(' ')[1]) === pid; } catch { return false; }
+  });
+  return round(Math.max(peak(pid), ...children.map(peak)) / 1024, 1);
 }
 
 async function timed<T>(fn: () => Promise<T>): Promise<{ s: number; value: T }> {
