@@ -137,6 +137,31 @@ describe('bad rows', () => {
     expect(await costOf(jobA.id)).toBe(before + 8640);
   });
 
+  it('takes the rows fixed in a re-upload of a committed file, and only those', async () => {
+    const first = await ok(co.bookkeeper.get('/api/receipts/imports'), 'list');
+    const committed = first.find((i: { fileName: string; status: string }) => i.fileName === 'kestrel.csv' && i.status === 'committed');
+    expect(committed).toBeTruthy();
+    const before = await costOf(jobA.id);
+    const r = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'kestrel-again.csv', content: file }, { supplier: 'Kestrel Aggregates', mapping });
+    expect(r.status, r.text).toBe(201);
+    expect(r.body.duplicateOf.id).toBe(committed.id);
+    expect(r.body.counts).toMatchObject({ lines: 0, duplicates: 3, errors: 2 });
+    const problems = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}/lines?state=error`), 'problems');
+    const bad = problems.items.find((l: { rowNumber: number }) => l.rowNumber === 3);
+    await ok(co.bookkeeper.patch(`/api/receipts/imports/${r.body.id}/lines/${bad.id}`, { cells: ['28.02.2026', 'T-2', 'G-57', 'Gravel', '1 t', '57,60', 'J-0142'] }), 'fix');
+    const c = await ok(co.bookkeeper.post(`/api/receipts/imports/${r.body.id}/commit`, {}), 'commit');
+    expect(c.summary).toMatchObject({ added: 1, duplicates: 3, errorsLeftOut: 1, addedCents: 5760 });
+    expect(c.summary.message).toContain(`already imported as import #${committed.id}`);
+    expect(await costOf(jobA.id)).toBe(before + 5760);
+    // The same file a third time: everything in it is now in, so nothing more.
+    const third = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'kestrel-3.csv', content: file }, { supplier: 'Kestrel Aggregates', mapping });
+    const fix3 = (await ok(co.bookkeeper.get(`/api/receipts/imports/${third.body.id}/lines?state=error`), 'problems')).items.find((l: { rowNumber: number }) => l.rowNumber === 3);
+    await ok(co.bookkeeper.patch(`/api/receipts/imports/${third.body.id}/lines/${fix3.id}`, { cells: ['28.02.2026', 'T-2', 'G-57', 'Gravel', '1 t', '57,60', 'J-0142'] }), 'fix');
+    const c3 = await ok(co.bookkeeper.post(`/api/receipts/imports/${third.body.id}/commit`, {}), 'commit');
+    expect(c3.summary).toMatchObject({ added: 0, duplicates: 4 });
+    expect(await costOf(jobA.id)).toBe(before + 5760);
+  });
+
   it('lets the bookkeeper fix a flagged row in the preview', async () => {
     const text = file.replace('T-1', 'T-11').replace('T-2', 'T-12').replace('T-3', 'T-13').replace('T-4', 'T-14').replace('T-5', 'T-15');
     const r = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'kestrel-2.csv', content: text }, { supplier: 'Kestrel Aggregates', mapping });
