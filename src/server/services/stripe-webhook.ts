@@ -10,6 +10,7 @@ import { audit } from '../repos/audit.ts';
 import { verifyWebhook } from '../payments/stripe.ts';
 import { insertRefundTx, landPaymentTx } from './payments.ts';
 import { tx } from './invoices.ts';
+import { expireStaleCheckoutSessions, markCheckoutSession } from './checkout-sessions.ts';
 
 /** What Tallypost put in the metadata when it made the checkout session; refused unless it reads back exactly. */
 const metadata = z.object({ invoice_id: z.string().regex(/^\d{1,15}$/), organization_id: z.string().min(1).max(36) });
@@ -38,9 +39,12 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
     }
     const result = await apply(trx, event);
     await trx('stripe_events').where('id', event.id).update({ organization_id: result.companyId, invoice_id: result.invoiceId, outcome: result.outcome.slice(0, 200) });
-    return result.outcome;
+    return result;
   });
-  return { status: 200, body: { received: true, outcome } };
+  if (typeof outcome === 'string') return { status: 200, body: { received: true, outcome } };
+  // Paid in full by card: any other hosted page still open for this invoice is closed.
+  if (outcome.companyId && outcome.invoiceId) await expireStaleCheckoutSessions({ companyId: outcome.companyId, invoiceId: outcome.invoiceId });
+  return { status: 200, body: { received: true, outcome: outcome.outcome } };
 }
 
 interface Applied { companyId: string | null; invoiceId: number | null; outcome: string }
@@ -62,6 +66,7 @@ async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event):
       const inv = await repo.findInvoice(companyId, invoiceId, trx);
       if (!inv || !intent || !Number.isSafeInteger(amount) || amount <= 0) return { companyId: null, invoiceId: null, outcome: 'ignored: no such invoice' };
       const s = await billingSettings(companyId, trx);
+      if (isSession) await markCheckoutSession(companyId, String(obj.id), 'complete', trx);
       const r = await landPaymentTx(trx, system(companyId), invoiceId, {
         method: 'card', amountCents: fromStripeAmount(amount, s.currency), receivedOn: todayIn(s.timezone, new Date(event.created * 1000)),
         reference: intent, asCredit: true, stripePaymentIntent: intent, stripeCheckoutSession: isSession ? String(obj.id) : null,
