@@ -123,6 +123,11 @@ describe('bad rows', () => {
     expect(r.body.mappingSource).toBe('given');
     expect(r.body.counts).toMatchObject({ lines: 3, errors: 2, blank: 1 });
     expect(r.body.blankRows).toEqual([5]);
+    // The upload's answer carries the rows with errors themselves, not only their count.
+    expect(r.body.rowErrors).toEqual({ total: 2, rows: [
+      { rowNumber: 3, reason: 'date: "31.02.2026" is not a day/month/year date' },
+      { rowNumber: 4, reason: 'amount: "zwölf" is not an amount' },
+    ] });
     const problems = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}/lines?state=problems`), 'problems');
     expect(problems.items.map((l: { rowNumber: number; reason: string }) => [l.rowNumber, l.reason])).toEqual([
       [3, 'date: "31.02.2026" is not a day/month/year date'],
@@ -173,6 +178,21 @@ describe('bad rows', () => {
     expect(fixed.body.raw[0]).toBe('31.02.2026');
     const detail = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}`), 'detail');
     expect(detail.counts).toMatchObject({ lines: 4, errors: 1 });
+  });
+
+  it('lists the first 100 rows with errors in the upload answer and counts them all', async () => {
+    const rows = Array.from({ length: 150 }, (_, i) => `2026-03-${String((i % 28) + 1).padStart(2, '0')},E-${i},Bad ${i},lots`);
+    const text = ['Date,Receipt,Description,Amount', '2026-03-01,E-OK,Good line,12.00', ...rows].join('\n');
+    const r = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'many-bad.csv', content: text }, { supplier: 'Thistle Yard' });
+    expect(r.status, r.text).toBe(201);
+    expect(r.body.counts).toMatchObject({ lines: 1, errors: 150 });
+    expect(r.body.rowErrors.total).toBe(150);
+    expect(r.body.rowErrors.rows).toHaveLength(100);
+    expect(r.body.rowErrors.rows[0]).toEqual({ rowNumber: 3, reason: 'amount: "lots" is not an amount' });
+    expect(r.body.rowErrors.rows[99].rowNumber).toBe(102);
+    const detail = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}`), 'detail');
+    expect(detail.rowErrors).toEqual(r.body.rowErrors);
+    expect((await co.bookkeeper.delete(`/api/receipts/imports/${r.body.id}`)).status).toBe(204);
   });
 
   it('asks for the columns it needs instead of guessing wrong', async () => {
