@@ -3,6 +3,7 @@
 import { registerAttachment, registerPeriodic } from './outbox/worker.ts';
 import { invoicePdf } from './services/invoice-pdf.ts';
 import { sendDueReminders } from './services/reminders.ts';
+import { expireStaleCheckoutSessions } from './services/checkout-sessions.ts';
 
 registerAttachment('invoice-pdf', async (ref, organizationId) => {
   if (!organizationId) throw new Error('invoice PDF without a company');
@@ -16,4 +17,12 @@ registerPeriodic(async () => {
   if (Date.now() - last < every) return;
   last = Date.now();
   await sendDueReminders();
+});
+
+/** Hosted card pages that outlived their invoice's balance and could not be expired at the time. */
+let lastExpiry = 0;
+registerPeriodic(async () => {
+  if (Date.now() - lastExpiry < 60_000) return;
+  lastExpiry = Date.now();
+  await expireStaleCheckoutSessions({ limit: 50 });
 });

@@ -48,6 +48,54 @@ describe('job cost against bid', () => {
     expect(strict.categories.find((x: { category: string }) => x.category === 'permit').over).toBe(false);
   });
 
+  it('flags categories past the company’s own percent, set once in the settings', async () => {
+    const settings = await ok(co.owner.get('/api/settings'), 'settings');
+    expect(settings.costFlagPct).toBe(10);
+    const permit = (c: { categories: { category: string; over: boolean }[] }) => c.categories.find((x) => x.category === 'permit')!;
+    // Permits run 16.67 % over their estimate (first test): flagged at 10 %, not at 20 %.
+    expect(permit(await ok(co.bookkeeper.get(`/api/jobs/${job.id}/costing`), 'costing')).over).toBe(true);
+    expect((await co.bookkeeper.patch('/api/settings', { costFlagPct: 20 })).status).toBe(403);
+    expect((await co.owner.patch('/api/settings', { costFlagPct: -1 })).status).toBe(400);
+    expect((await co.owner.patch('/api/settings', { costFlagPct: 20 })).status).toBe(200);
+    const at20 = await ok(co.bookkeeper.get(`/api/jobs/${job.id}/costing`), 'costing');
+    expect(at20.flagPct).toBe(20);
+    expect(permit(at20).over).toBe(false);
+    // The job page reads the same setting.
+    const page = await co.owner.get(`/jobs/${job.id}`, { accept: 'text/html' });
+    expect(page.status).toBe(200);
+    expect(page.text).not.toContain('Over by more than');
+    // A percent asked for on the request still wins.
+    const asked = await ok(co.bookkeeper.get(`/api/jobs/${job.id}/costing?flagPct=15`), 'costing');
+    expect(asked.flagPct).toBe(15);
+    expect(permit(asked).over).toBe(true);
+    // Another company keeps its own 10 %, and a crew lead is not told the threshold.
+    expect((await ok(other.owner.get('/api/settings'), 'other')).costFlagPct).toBe(10);
+    expect('costFlagPct' in (await ok(co.crew_lead.get('/api/settings'), 'crew'))).toBe(false);
+    expect((await co.owner.patch('/api/settings', { costFlagPct: 10 })).status).toBe(200);
+    expect((await co.owner.get(`/jobs/${job.id}`, { accept: 'text/html' })).text).toContain('Over by more than 10 %');
+  });
+
+  it('adds the approved change orders to the revenue exactly as billing counts them', async () => {
+    const cust = await makeCustomer(co.owner);
+    const j = await makeJob(co.owner, cust.id, { status: 'building' });
+    await testDb()('jobs').where({ id: j.id }).update({ contract_cents: 500_000 });
+    const order = async (priceCents: number, decision: 'approved' | 'declined' | null) => {
+      const c = await ok(co.owner.post('/api/change-orders', { jobId: j.id, description: `Change for ${priceCents}`, priceCents, costs: { material: priceCents / 2 } }), 'change order');
+      if (decision) await ok(co.owner.post(`/api/change-orders/${c.id}/decision`, { decision, decidedOn: '2026-04-10', approvedByName: 'Pat Customer' }), 'decision');
+    };
+    await order(120_000, 'approved');
+    await order(30_000, 'approved');
+    await order(80_000, null);
+    await order(50_000, 'declined');
+    const c = await ok(co.owner.get(`/api/jobs/${j.id}/costing`), 'costing');
+    expect(c).toMatchObject({ contractCents: 500_000, changeOrdersCents: 150_000, revenueCents: 650_000, marginSoFarCents: 650_000 });
+    expect(c.totals.changeOrderCents).toBe(75_000);
+    // Billing's own figure for the same job: a draft invoice reports the contract to date.
+    const inv = await ok(co.owner.post('/api/invoices', { jobId: j.id, kind: 'deposit', basisPct: 10, terms: 'net_15' }), 'draft');
+    expect(inv.contract.contractCents).toBe(c.revenueCents);
+    expect(inv.contract.approvedChangeOrdersCents).toBe(c.changeOrdersCents);
+  });
+
   it('is for owner, bookkeeper and estimator only, and another company’s job is 404', async () => {
     expect((await co.crew_lead.get(`/api/jobs/${job.id}/costing`)).status).toBe(403);
     expect((await other.owner.get(`/api/jobs/${job.id}/costing`)).status).toBe(404);

@@ -2,6 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCompany, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
 import { billableJob, draft, getInvoice, issue } from '../setup/invoices';
+import { pdfText } from '../setup/pdf';
+import { stack } from '../setup/stack';
 
 let co: TestCompany;
 let other: TestCompany;
@@ -201,6 +203,64 @@ describe('issued invoices', () => {
     expect((await anyone.get(`/pay/${forged}`, { accept: 'text/html' })).status).toBe(404);
     expect((await anyone.get(`/pay/${Number(id) + 1}.${nonce}.${sig}`, { accept: 'text/html' })).status).toBe(404);
     expect((await anyone.post(`/api/public/invoices/${forged}/checkout`)).status).toBe(404);
+  });
+});
+
+describe('the invoice PDF', () => {
+  it('prints the company, customer, job and site, lines, tax, retainage, total, paid, balance, due date, how to pay and the link', async () => {
+    expect((await co.owner.patch('/api/settings', { addressLine: '1 Cedar Way', city: 'Millbrook', region: 'OR', postalCode: '97000', phone: '555-0142', email: 'office@cedar.example', licenseNumber: 'CCB 204417' })).status).toBe(200);
+    const { job, customer } = await billableJob(co, 1_500_000, { commercial: true, title: 'Warehouse chain link', siteLine1: '14 Larkspur Lane', siteCity: 'Riverton', siteRegion: 'OR', sitePostal: '97101' });
+    const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'progress', basisPct: 40, retainagePct: 10 })).id);
+    expect(inv.retainageHeldCents).toBeGreaterThan(0);
+    expect(inv.taxCents).toBeGreaterThan(0);
+    const pay = await co.bookkeeper.post(`/api/invoices/${inv.id}/payments`, { amountCents: 100_000, method: 'check', receivedOn: inv.today, reference: 'Check 2207' });
+    expect(pay.status, pay.text).toBe(201);
+    const now = pay.body.invoice;
+    const res = await fetch(`${stack().appUrl}/api/public/invoices/${inv.publicUrl.split('/pay/')[1]}/pdf`);
+    expect(res.headers.get('content-type')).toBe('application/pdf');
+    const pdf = await pdfText(new Uint8Array(await res.arrayBuffer()));
+    const text = pdf.lines.join('\n');
+    // Amounts and dates written the way an en-US reader expects, formatted here by Intl, not by the app.
+    const usd = (c: number) => new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' }).format(c / 100);
+    const day = (iso: string) => new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' }).format(new Date(`${iso}T00:00:00Z`));
+    const line = (re: RegExp) => expect(pdf.lines.some((l) => re.test(l)), `${re} in:\n${text}`).toBe(true);
+    const esc = (v: string) => v.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+
+    // Company block
+    for (const v of [co.name, '1 Cedar Way', 'Millbrook, OR 97000', '555-0142 · office@cedar.example', 'Licence CCB 204417']) expect(text).toContain(v);
+    // Customer, job and site
+    expect(text).toContain(customer.name);
+    expect(text).toContain('Testville');
+    expect(text).toContain(`${job.code} · Warehouse chain link`);
+    expect(text).toContain('14 Larkspur Lane, Riverton, OR 97101');
+    line(new RegExp(`Invoice ${esc(inv.numberText)}`));
+    // Lines: quantity, unit price and amount on the description's first printed line, the
+    // description (wrapped over the lines below it) whole, taxable ones marked *.
+    expect(now.lines.length).toBeGreaterThan(0);
+    for (const l of now.lines as { description: string; quantity: number; unitPriceCents: number; amountCents: number; taxable: boolean }[]) {
+      const tail = ` ${l.quantity} ${usd(l.unitPriceCents)} ${usd(l.amountCents)}`;
+      const want = `${l.description}${l.taxable ? ' *' : ''}`;
+      const at = pdf.lines.findIndex((p) => p.endsWith(tail) && want.startsWith(p.slice(0, -tail.length)));
+      expect(at, `${want}${tail} in:\n${text}`).toBeGreaterThanOrEqual(0);
+      let got = pdf.lines[at].slice(0, -tail.length);
+      for (let j = at + 1; got.length < want.length && j < pdf.lines.length; j++) got += ` ${pdf.lines[j]}`;
+      expect(got).toBe(want);
+    }
+    // Tax, retainage, total, paid to date, balance: each label beside its amount
+    line(new RegExp(`^Sales tax 8\\.25 % on ${esc(usd(now.taxableCents))} \\(materials, marked \\*\\) ${esc(usd(now.taxCents))}$`));
+    line(new RegExp(`^Retainage held, 10 % \\(billed at the end\\) −${esc(usd(now.retainageHeldCents))}$`));
+    line(new RegExp(`^Invoice total ${esc(usd(now.totalCents))}$`));
+    line(new RegExp(`^Paid to date ${esc(usd(100_000))}$`));
+    line(new RegExp(`^Balance due ${esc(usd(now.totalCents - 100_000))}$`));
+    expect(now.balanceCents).toBe(now.totalCents - 100_000);
+    // Due date, how to pay and the payment link (as text and as a link a viewer opens)
+    line(new RegExp(`^Due ${esc(day(now.dueOn))}$`));
+    expect(text).toContain('How to pay');
+    expect(text).toContain(`Due ${day(now.dueOn)}. Please quote ${now.numberText} with your payment.`);
+    expect(text).toContain('Online by card: open the link below and choose Pay online.');
+    expect(text).toContain(`By check payable to ${co.name}, mailed to 1 Cedar Way, Millbrook, OR 97000.`);
+    expect(pdf.links).toContain(now.publicUrl);
+    expect(text.replace(/\s+/g, '')).toContain(now.publicUrl);
   });
 });
 

@@ -128,6 +128,11 @@ describe('bad rows', () => {
     expect(r.body.mappingSource).toBe('given');
     expect(r.body.counts).toMatchObject({ lines: 3, errors: 2, blank: 1 });
     expect(r.body.blankRows).toEqual([5]);
+    // The upload's answer carries the rows with errors themselves, not only their count.
+    expect(r.body.rowErrors).toEqual({ total: 2, rows: [
+      { rowNumber: 3, reason: 'date: "31.02.2026" is not a day/month/year date' },
+      { rowNumber: 4, reason: 'amount: "zwölf" is not an amount' },
+    ] });
     const problems = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}/lines?state=problems`), 'problems');
     expect(problems.items.map((l: { rowNumber: number; reason: string }) => [l.rowNumber, l.reason])).toEqual([
       [3, 'date: "31.02.2026" is not a day/month/year date'],
@@ -142,6 +147,31 @@ describe('bad rows', () => {
     expect(await costOf(jobA.id)).toBe(before + 8640);
   });
 
+  it('takes the rows fixed in a re-upload of a committed file, and only those', async () => {
+    const first = await ok(co.bookkeeper.get('/api/receipts/imports'), 'list');
+    const committed = first.find((i: { fileName: string; status: string }) => i.fileName === 'kestrel.csv' && i.status === 'committed');
+    expect(committed).toBeTruthy();
+    const before = await costOf(jobA.id);
+    const r = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'kestrel-again.csv', content: file }, { supplier: 'Kestrel Aggregates', mapping });
+    expect(r.status, r.text).toBe(201);
+    expect(r.body.duplicateOf.id).toBe(committed.id);
+    expect(r.body.counts).toMatchObject({ lines: 0, duplicates: 3, errors: 2 });
+    const problems = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}/lines?state=error`), 'problems');
+    const bad = problems.items.find((l: { rowNumber: number }) => l.rowNumber === 3);
+    await ok(co.bookkeeper.patch(`/api/receipts/imports/${r.body.id}/lines/${bad.id}`, { cells: ['28.02.2026', 'T-2', 'G-57', 'Gravel', '1 t', '57,60', 'J-0142'] }), 'fix');
+    const c = await ok(co.bookkeeper.post(`/api/receipts/imports/${r.body.id}/commit`, {}), 'commit');
+    expect(c.summary).toMatchObject({ added: 1, duplicates: 3, errorsLeftOut: 1, addedCents: 5760 });
+    expect(c.summary.message).toContain(`already imported as import #${committed.id}`);
+    expect(await costOf(jobA.id)).toBe(before + 5760);
+    // The same file a third time: everything in it is now in, so nothing more.
+    const third = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'kestrel-3.csv', content: file }, { supplier: 'Kestrel Aggregates', mapping });
+    const fix3 = (await ok(co.bookkeeper.get(`/api/receipts/imports/${third.body.id}/lines?state=error`), 'problems')).items.find((l: { rowNumber: number }) => l.rowNumber === 3);
+    await ok(co.bookkeeper.patch(`/api/receipts/imports/${third.body.id}/lines/${fix3.id}`, { cells: ['28.02.2026', 'T-2', 'G-57', 'Gravel', '1 t', '57,60', 'J-0142'] }), 'fix');
+    const c3 = await ok(co.bookkeeper.post(`/api/receipts/imports/${third.body.id}/commit`, {}), 'commit');
+    expect(c3.summary).toMatchObject({ added: 0, duplicates: 4 });
+    expect(await costOf(jobA.id)).toBe(before + 5760);
+  });
+
   it('lets the bookkeeper fix a flagged row in the preview', async () => {
     const text = file.replace('T-1', 'T-11').replace('T-2', 'T-12').replace('T-3', 'T-13').replace('T-4', 'T-14').replace('T-5', 'T-15');
     const r = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'kestrel-2.csv', content: text }, { supplier: 'Kestrel Aggregates', mapping });
@@ -153,6 +183,21 @@ describe('bad rows', () => {
     expect(fixed.body.raw[0]).toBe('31.02.2026');
     const detail = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}`), 'detail');
     expect(detail.counts).toMatchObject({ lines: 4, errors: 1 });
+  });
+
+  it('lists the first 100 rows with errors in the upload answer and counts them all', async () => {
+    const rows = Array.from({ length: 150 }, (_, i) => `2026-03-${String((i % 28) + 1).padStart(2, '0')},E-${i},Bad ${i},lots`);
+    const text = ['Date,Receipt,Description,Amount', '2026-03-01,E-OK,Good line,12.00', ...rows].join('\n');
+    const r = await upload(co.bookkeeper, '/api/receipts/imports', { name: 'many-bad.csv', content: text }, { supplier: 'Thistle Yard' });
+    expect(r.status, r.text).toBe(201);
+    expect(r.body.counts).toMatchObject({ lines: 1, errors: 150 });
+    expect(r.body.rowErrors.total).toBe(150);
+    expect(r.body.rowErrors.rows).toHaveLength(100);
+    expect(r.body.rowErrors.rows[0]).toEqual({ rowNumber: 3, reason: 'amount: "lots" is not an amount' });
+    expect(r.body.rowErrors.rows[99].rowNumber).toBe(102);
+    const detail = await ok(co.bookkeeper.get(`/api/receipts/imports/${r.body.id}`), 'detail');
+    expect(detail.rowErrors).toEqual(r.body.rowErrors);
+    expect((await co.bookkeeper.delete(`/api/receipts/imports/${r.body.id}`)).status).toBe(204);
   });
 
   it('asks for the columns it needs instead of guessing wrong', async () => {

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import currencyCodes from 'currency-codes';
+import Stripe from 'stripe';
 import { Client } from '../setup/client';
 import { makeCompany, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
@@ -157,6 +158,92 @@ describe('paying online', () => {
     expect(after.paidCents).toBe(paid.paidCents - 10_000);
     const tooMuch = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: paid.paidCents });
     expect(tooMuch.status).toBe(422);
+  });
+});
+
+describe('checkout sessions', () => {
+  const session = (url: string) => fetch(`${stack().stripeApi}/v1/checkout/sessions/${url.split('/').pop()}`, { headers: { authorization: 'Bearer sk_test_check' } }).then((r) => r.json());
+  const tokenOf = (publicUrl: string) => publicUrl.split('/pay/')[1];
+
+  it('gives the same session for the same request, and a new one after the link is revoked', async () => {
+    const { job } = await billableJob(co, 600_000);
+    const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: 60_000 })).id);
+    const first = tokenOf(inv.publicUrl);
+    const customer = new Client();
+    const a = await customer.post(`/api/public/invoices/${first}/checkout`);
+    const b = await customer.post(`/api/public/invoices/${first}/checkout`);
+    expect(a.status, a.text).toBe(200);
+    expect(b.body.url).toBe(a.body.url);
+    const revoked = await co.owner.delete(`/api/invoices/${inv.id}/link`);
+    expect(revoked.status, revoked.text).toBe(200);
+    const second = tokenOf(revoked.body.publicUrl);
+    expect(second).not.toBe(first);
+    expect((await customer.post(`/api/public/invoices/${first}/checkout`)).status).toBe(404);
+    const c = await customer.post(`/api/public/invoices/${second}/checkout`);
+    expect(c.status, c.text).toBe(200);
+    expect(c.body.url).not.toBe(a.body.url);
+    // The new session sends the customer back to the link that works.
+    expect((await session(c.body.url)).success_url).toContain(`/pay/${second}?paid=`);
+    const back = await hostedPage(c.body.url, 'pay');
+    expect(back.location).toContain(`/pay/${second}?paid=cs_test_`);
+    expect((await customer.get(back.location!.replace(/^https?:\/\/[^/]+/, ''), { accept: 'text/html' })).status).toBe(200);
+  });
+
+  it('is refused by the stand-in, as by Stripe, when a key comes again with other parameters', async () => {
+    const api = new URL(stack().stripeApi);
+    const sdk = new Stripe('sk_test_idem', { host: api.hostname, port: Number(api.port), protocol: 'http', maxNetworkRetries: 0 });
+    const params = (amount: number): Stripe.Checkout.SessionCreateParams => ({
+      mode: 'payment', success_url: 'http://x.test/ok', cancel_url: 'http://x.test/no',
+      line_items: [{ quantity: 1, price_data: { currency: 'usd', unit_amount: amount, product_data: { name: 'Deposit' } } }],
+    });
+    const key = `test-idem-${Date.now()}`;
+    const one = await sdk.checkout.sessions.create(params(10_000), { idempotencyKey: key });
+    const again = await sdk.checkout.sessions.create(params(10_000), { idempotencyKey: key });
+    expect(again.id).toBe(one.id);
+    const err = await sdk.checkout.sessions.create(params(9_000), { idempotencyKey: key }).then(() => null, (e: Stripe.errors.StripeError) => e);
+    expect(err).toBeInstanceOf(Stripe.errors.StripeIdempotencyError);
+    expect(err!.statusCode).toBe(400);
+    expect(err!.type).toBe('StripeIdempotencyError');
+    expect(err!.raw).toMatchObject({ type: 'idempotency_error' });
+  });
+
+  it('expires the open hosted page when a check pays part, the balance moves, or the invoice is voided', async () => {
+    const { job } = await billableJob(co, 800_000);
+    const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: 80_000 })).id);
+    const token = tokenOf(inv.publicUrl);
+    const customer = new Client();
+    const first = (await customer.post(`/api/public/invoices/${token}/checkout`)).body.url as string;
+    expect((await session(first)).status).toBe('open');
+    const paid = await co.bookkeeper.post(`/api/invoices/${inv.id}/payments`, { amountCents: 30_000, method: 'check', receivedOn: inv.today, reference: 'Check 311' });
+    expect(paid.status, paid.text).toBe(201);
+    expect((await session(first)).status).toBe('expired');
+    expect((await fetch(first)).status).toBe(410);
+    const second = (await customer.post(`/api/public/invoices/${token}/checkout`)).body.url as string;
+    expect(second).not.toBe(first);
+    const open = await session(second);
+    expect(open).toMatchObject({ status: 'open', amount_total: inv.totalCents - 30_000 });
+    // Paid in full by check: the second page closes too, and nothing more can be paid online.
+    const rest = await co.bookkeeper.post(`/api/invoices/${inv.id}/payments`, { amountCents: inv.totalCents - 30_000, method: 'check', receivedOn: inv.today });
+    expect(rest.body.invoice.status).toBe('paid');
+    expect((await session(second)).status).toBe('expired');
+    expect((await customer.post(`/api/public/invoices/${token}/checkout`)).status).toBe(422);
+    const rows = await testDb()('checkout_sessions').where({ organization_id: co.id, invoice_id: inv.id }).orderBy('id');
+    expect(rows.map((r) => [r.status, Number(r.amount_cents)])).toEqual([['expired', inv.totalCents], ['expired', inv.totalCents - 30_000]]);
+
+    const { job: job2 } = await billableJob(co, 800_000);
+    const inv2 = await issue(co.owner, (await draft(co.owner, { jobId: job2.id, kind: 'deposit', requestedCents: 50_000 })).id);
+    const url2 = (await customer.post(`/api/public/invoices/${tokenOf(inv2.publicUrl)}/checkout`)).body.url as string;
+    expect((await co.owner.post(`/api/invoices/${inv2.id}/void`, { reason: 'Wrong job', replace: false })).status).toBe(200);
+    expect((await session(url2)).status).toBe('expired');
+  });
+
+  it('leaves the paid session complete and closes no page that still matches the balance', async () => {
+    const { inv, sessionUrl } = await paidByCard(700_000);
+    const other = await paidByCard(710_000);
+    await hostedPage(sessionUrl, 'pay');
+    expect((await session(sessionUrl)).status).toBe('complete');
+    expect((await testDb()('checkout_sessions').where({ organization_id: co.id, invoice_id: inv.id }).first()).status).toBe('complete');
+    expect((await session(other.sessionUrl)).status).toBe('open');
   });
 });
 

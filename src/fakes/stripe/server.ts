@@ -37,20 +37,29 @@ function esc(s: unknown): string {
   return String(s ?? '').replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 }
 
+/** The parameters with keys sorted, so the same request compares equal however it was encoded. */
+function canonical(v: unknown): string {
+  if (Array.isArray(v)) return `[${v.map(canonical).join(',')}]`;
+  if (v && typeof v === 'object') return `{${Object.keys(v).sort().map((k) => `${JSON.stringify(k)}:${canonical((v as Obj)[k])}`).join(',')}}`;
+  return JSON.stringify(v);
+}
+
 function money(amount: number, currency: string): string {
   return new Intl.NumberFormat('en-US', { style: 'currency', currency: currency.toUpperCase() }).format(amount / 100);
 }
 
 /**
- * A local stand-in for the parts of the Stripe API that Tallypost calls (Checkout Sessions,
- * PaymentIntents, refunds), with a hosted pay page that can pay, fail a card or cancel, and
- * signed webhooks (stripe.webhooks.generateTestHeaderString) posted back to the app.
+ * A local stand-in for the parts of the Stripe API that Tallypost calls (Checkout Sessions
+ * created, read and expired; PaymentIntents; refunds; idempotency keys kept as Stripe keeps
+ * them), with a hosted pay page that can pay, fail a card or cancel, and signed webhooks
+ * (stripe.webhooks.generateTestHeaderString) posted back to the app.
  */
 export function createStripeFake(opts: StripeFakeOptions): http.Server {
   const sessions = new Map<string, Obj>();
   const intents = new Map<string, Obj>();
   const charges = new Map<string, Obj>();
-  const idempotent = new Map<string, { status: number; body: string }>();
+  /** Stripe keeps a key's first answer for 24 h and refuses the key with other parameters. */
+  const idempotent = new Map<string, { status: number; body: string; request: string }>();
   const events: { id: string; type: string; payload: string; deliveries: { status: number; at: number }[] }[] = [];
   const signer = new Stripe('sk_test_signer');
 
@@ -196,6 +205,7 @@ ${message ? `<p class="err" role="alert">${esc(message)}</p>` : ''}
         const s = sessions.get(hosted[1]);
         if (!s) return html(res, 404, 'Not found', '<h1>This payment page does not exist.</h1>');
         const action = hosted[2];
+        if (s.status === 'expired') return html(res, 410, 'Expired', `<h1>This payment page has expired.</h1><p><a href="${esc(s.cancel_url)}">Back to the invoice</a></p>`);
         if (!action && method === 'GET') {
           if (s.status === 'complete') return html(res, 200, 'Paid', `<h1>This payment is complete.</h1><p><a href="${esc(String(s.success_url).replace('{CHECKOUT_SESSION_ID}', String(s.id)))}">Back to the invoice</a></p>`);
           return payPage(res, s);
@@ -222,8 +232,12 @@ ${message ? `<p class="err" role="alert">${esc(message)}</p>` : ''}
       const raw = method === 'POST' ? await readBody(req) : '';
       const key = req.headers['idempotency-key'];
       const cacheKey = typeof key === 'string' && method === 'POST' ? `${auth}:${key}` : null;
+      const request = `${method} ${path} ${canonical(parseForm(raw))}`;
       if (cacheKey && idempotent.has(cacheKey)) {
         const hit = idempotent.get(cacheKey)!;
+        if (hit.request !== request) {
+          return send(res, 400, { error: { type: 'idempotency_error', message: `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${key}' if you meant to execute a different request.` } });
+        }
         return send(res, hit.status, hit.body, { 'idempotent-replayed': 'true' });
       }
       const answer = async (): Promise<{ status: number; body: unknown }> => {
@@ -237,6 +251,13 @@ ${message ? `<p class="err" role="alert">${esc(message)}</p>` : ''}
           const s = sessions.get(m[1]);
           return s ? { status: 200, body: publicSession(s) } : { status: 404, body: { error: { type: 'invalid_request_error', code: 'resource_missing', message: `No such checkout.session: '${m[1]}'` } } };
         }
+        if ((m = /^\/v1\/checkout\/sessions\/([\w]+)\/expire$/.exec(path)) && method === 'POST') {
+          const s = sessions.get(m[1]);
+          if (!s) return { status: 404, body: { error: { type: 'invalid_request_error', code: 'resource_missing', message: `No such checkout.session: '${m[1]}'` } } };
+          if (s.status !== 'open') return { status: 400, body: { error: { type: 'invalid_request_error', message: `Only Checkout Sessions with a status in ["open"] can be expired. This Checkout Session has a status of "${s.status}".` } } };
+          Object.assign(s, { status: 'expired', url: null });
+          return { status: 200, body: publicSession(s) };
+        }
         if ((m = /^\/v1\/payment_intents\/([\w]+)$/.exec(path)) && method === 'GET') {
           const pi = intents.get(m[1]);
           return pi ? { status: 200, body: pi } : { status: 404, body: { error: { type: 'invalid_request_error', code: 'resource_missing', message: `No such payment_intent: '${m[1]}'` } } };
@@ -246,7 +267,7 @@ ${message ? `<p class="err" role="alert">${esc(message)}</p>` : ''}
       };
       const out = await answer();
       const body = JSON.stringify(out.body);
-      if (cacheKey && out.status < 500) idempotent.set(cacheKey, { status: out.status, body });
+      if (cacheKey && out.status < 500) idempotent.set(cacheKey, { status: out.status, body, request });
       return send(res, out.status, body);
     } catch (err) {
       return apiError(res, 500, err instanceof Error ? err.message : String(err));

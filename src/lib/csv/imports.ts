@@ -3,6 +3,9 @@ import type { CostCategory } from '../costs/categories.ts';
 import type { ImportKind, Mapping } from './mapping.ts';
 import { mappingSchema } from './mapping.ts';
 
+/** How many rows with errors the preview answer lists; the rest are on the lines endpoint. */
+export const ROW_ERRORS_SHOWN = 100;
+
 /** The shapes the import screens and endpoints exchange. */
 export type LineState = 'ok' | 'error' | 'skipped' | 'committed' | 'duplicate';
 export type Allocation = 'unmatched' | 'job' | 'split' | 'overhead';
@@ -74,6 +77,8 @@ export interface ImportDetail {
   previewRows: string[][];
   blankRows: number[];
   counts: ImportCounts;
+  /** the first rows with errors (ROW_ERRORS_SHOWN at most) in row order, and how many there are in all */
+  rowErrors: { total: number; rows: { rowNumber: number; reason: string }[] };
   /** this exact file was committed before */
   duplicateOf: { id: number; committedAt: string } | null;
   uploadedByName: string | null;

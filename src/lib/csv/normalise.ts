@@ -113,7 +113,10 @@ export function normaliseReceiptRow(cells: string[], ctx: RowContext): RowOutcom
   if (problems.length) return { kind: 'error', reason: problems.join('; ') };
   // A returned quantity written as a positive amount is still a credit.
   if (qty && qty.value.units < 0 && amountCents! > 0) amountCents = -amountCents!;
-  const taxCents = tax ? toCents(tax) : 0;
+  // The tax on a credit comes back with it, even when the receipt prints it positive
+  // (common practice, no source): a return never adds tax to the cost.
+  let taxCents = tax ? toCents(tax) : 0;
+  if (amountCents! < 0 && taxCents > 0) taxCents = -taxCents;
   const total = amountCents! + taxCents;
   if (!Number.isSafeInteger(total) || Math.abs(total) >= 1e13) return { kind: 'error', reason: 'amount: too large for one line' };
   return {

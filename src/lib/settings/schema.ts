@@ -21,6 +21,8 @@ export const settingsInput = z.strictObject({
   paymentTermsDays: z.coerce.number().int().min(0).max(120),
   targetMarginPct: pct(90),
   labourBurdenPct: pct(200),
+  /** job costing flags a category running more than this percent over its estimate */
+  costFlagPct: pct(500),
   taxMode: z.enum(TAX_MODES),
   taxRatePct: pct(25),
   bidRoundingCents: z.coerce.number().int().min(1).max(100_000),

@@ -9,6 +9,7 @@ const COLUMNS: Record<keyof SettingsInput, string> = {
   paymentTermsDays: 'payment_terms_days',
   targetMarginPct: 'target_margin_pct',
   labourBurdenPct: 'labour_burden_pct',
+  costFlagPct: 'cost_flag_pct',
   taxMode: 'tax_mode',
   taxRatePct: 'tax_rate_pct',
   bidRoundingCents: 'bid_rounding_cents',
@@ -29,7 +30,7 @@ const COLUMNS: Record<keyof SettingsInput, string> = {
   businessDays: 'business_days',
   holidays: 'holidays',
 };
-const NUMERIC = new Set(['targetMarginPct', 'labourBurdenPct', 'taxRatePct']);
+const NUMERIC = new Set(['targetMarginPct', 'labourBurdenPct', 'costFlagPct', 'taxRatePct']);
 const NULLABLE_NUMERIC = new Set(['frostDepthIn', 'permitMaxFrontIn', 'permitMaxSideIn', 'permitMaxBackIn']);
 
 function fromColumn(key: string, v: unknown): unknown {

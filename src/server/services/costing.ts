@@ -8,6 +8,8 @@ import { TIME_TASKS, type TimeTask } from '../../lib/labour/tasks.ts';
 import { findJob } from '../repos/jobs.ts';
 import { actualByCategory } from '../repos/costs.ts';
 import { hoursByTask } from '../repos/time-entries.ts';
+import { jobContract } from '../repos/change-orders.ts';
+import { getSettings } from '../repos/settings.ts';
 
 export interface JobCostingView extends JobCosting {
   jobId: number;
@@ -18,30 +20,10 @@ export interface JobCostingView extends JobCosting {
   unpricedRentals: number;
 }
 
-let changeOrderColumns: { amount: string; approved: string } | null | undefined;
-
 /**
- * Approved change orders add to the contract price. The invoicing feature owns that table;
- * it is read here only when it exists with an amount and an approval column, else 0.
+ * A job's estimated and actual cost by category, variance, and margin so far. Categories are
+ * flagged past the company's cost flag percent unless the caller asks for another.
  */
-async function approvedChangeOrdersCents(k: Knex, companyId: string, jobId: number): Promise<number> {
-  if (changeOrderColumns === undefined) {
-    const [cols] = await k.raw("SELECT column_name AS c FROM information_schema.columns WHERE table_schema = DATABASE() AND table_name = 'change_orders'");
-    const names = new Set((cols as { c: string }[]).map((r) => r.c));
-    const amount = ['amount_cents', 'price_cents', 'total_cents'].find((c) => names.has(c));
-    const approved = ['approved_on', 'approved_at', 'approved_date'].find((c) => names.has(c)) ?? (names.has('status') ? 'status' : undefined);
-    changeOrderColumns = amount && approved && names.has('job_id') ? { amount, approved } : null;
-  }
-  if (!changeOrderColumns) return 0;
-  const { amount, approved } = changeOrderColumns;
-  const q = k('change_orders').where({ organization_id: companyId, job_id: jobId });
-  if (approved === 'status') q.andWhere('status', 'approved');
-  else q.whereNotNull(approved);
-  const [r] = await q.sum({ s: amount });
-  return toInt(r?.s ?? 0);
-}
-
-/** A job's estimated and actual cost by category, variance, and margin so far. */
 export async function getJobCosting(actor: Actor, jobId: number, flagPct?: number, k: Knex = db()): Promise<JobCostingView> {
   const job = await findJob(actor.companyId, jobId, {}, k);
   if (!job) throw notFound('That job');
@@ -50,13 +32,16 @@ export async function getJobCosting(actor: Actor, jobId: number, flagPct?: numbe
     amountCents: toInt(r.amount_cents),
     source: r.source as string,
   }));
-  const [actuals, changeOrders, hours, unpriced] = await Promise.all([
+  // The contract and its approved change orders as billing reads them (repos/change-orders).
+  const [actuals, contract, hours, unpriced, settings] = await Promise.all([
     actualByCategory(actor.companyId, jobId, k),
-    approvedChangeOrdersCents(k, actor.companyId, jobId).catch(() => 0),
+    jobContract(actor.companyId, jobId, k),
     hoursByTask(actor.companyId, jobId, k),
     k('rentals').where({ organization_id: actor.companyId, job_id: jobId }).whereNull('cost_cents').count({ n: '*' }).first(),
+    getSettings(actor.companyId, k),
   ]);
-  const costing = jobCosting({ estimates, actuals, contractCents: job.contractCents, changeOrdersCents: changeOrders, flagPct });
+  if (!contract) throw notFound('That job');
+  const costing = jobCosting({ estimates, actuals, contractCents: contract.baseCents, changeOrdersCents: contract.approvedChangeOrdersCents, flagPct: flagPct ?? settings.costFlagPct });
   return {
     jobId,
     jobCode: job.code,

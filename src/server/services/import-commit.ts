@@ -92,12 +92,12 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
       .limit(BATCH);
     if (!rows.length) break;
     lastId = Number(rows[rows.length - 1].id);
-    const prior = duplicateFile ? new Map() : await imports.committedKeys(companyId, rows.map((r) => r.line_key), trx);
-    const dup = rows.filter((r) => duplicateFile || prior.has(r.line_key));
-    const fresh = rows.filter((r) => !(duplicateFile || prior.has(r.line_key)));
-    if (duplicateFile && dup.length) {
-      await trx('import_lines').where('organization_id', companyId).whereIn('id', dup.map((r) => r.id)).update({ state: 'duplicate', reason: `this file was already imported as import #${duplicateFile.id}` });
-    } else if (dup.length) {
+    // Always line by line, even for a file committed before: rows that were errors then and
+    // are fixed in this preview are new lines; the file hash only changes the message.
+    const prior = await imports.committedKeys(companyId, rows.map((r) => r.line_key), trx);
+    const dup = rows.filter((r) => prior.has(r.line_key));
+    const fresh = rows.filter((r) => !prior.has(r.line_key));
+    if (dup.length) {
       await trx.raw(
         `UPDATE import_lines l JOIN import_lines p ON p.organization_id = l.organization_id AND p.dedupe_key = l.line_key
          SET l.state = 'duplicate', l.reason = CONCAT('already imported: import #', p.import_id, ', row ', p.\`row_number\`)
@@ -199,11 +199,12 @@ function sighting(r: Record<string, unknown>, importId: number): PriceSighting[]
 }
 
 function message(kind: string, s: { added: number; duplicates: number; addedCents: number; errors: number; duplicateFile: { id: number; committedAt: string } | null }): string {
-  if (s.duplicateFile) return `This file was already imported as import #${s.duplicateFile.id}; nothing was added.`;
   const what = kind === 'receipts' ? (s.added === 1 ? 'line' : 'lines') : s.added === 1 ? 'time entry' : 'time entries';
+  if (s.duplicateFile && !s.added) return `This file was already imported as import #${s.duplicateFile.id}; nothing was added.`;
   const parts = [`Added ${s.added.toLocaleString('en-US')} ${what} (${formatMoney(s.addedCents)})`];
   if (s.duplicates) parts.push(`${s.duplicates} already imported and left out`);
   if (s.errors) parts.push(`${s.errors} row${s.errors === 1 ? '' : 's'} with errors left out`);
   if (!s.added && s.duplicates) return `Nothing was added: all ${s.duplicates} line${s.duplicates === 1 ? ' was' : 's were'} already imported.`;
-  return `${parts.join('; ')}.`;
+  const again = s.duplicateFile ? `This file was already imported as import #${s.duplicateFile.id}; only rows not imported then were added. ` : '';
+  return `${again}${parts.join('; ')}.`;
 }

@@ -4,7 +4,7 @@ import type { Actor } from '../http.ts';
 import { AppError, notFound } from '../../lib/errors.ts';
 import { mappingSchema, resolveColumns, type ImportKind, type Mapping } from '../../lib/csv/mapping.ts';
 import { normaliseReceiptRow, normaliseTimesheetRow } from '../../lib/csv/normalise.ts';
-import type { CommitSummary, ImportCounts, ImportDetail, ImportLine, ImportLinesQuery, ImportListItem } from '../../lib/csv/imports.ts';
+import { ROW_ERRORS_SHOWN, type CommitSummary, type ImportCounts, type ImportDetail, type ImportLine, type ImportLinesQuery, type ImportListItem } from '../../lib/csv/imports.ts';
 import { fieldErrors } from '../../lib/errors.ts';
 import * as imports from '../repos/imports.ts';
 import { findSupplier, findSupplierByName } from '../repos/suppliers.ts';
@@ -94,6 +94,10 @@ function counts(imp: imports.ImportRow, c: imports.LineCounts): ImportCounts {
 export async function getImport(actor: Actor, id: number, kind?: ImportKind, k: Knex = db()): Promise<ImportDetail> {
   const imp = await visibleImport(k, actor, id, kind);
   const c = await imports.countLines(actor.companyId, id, k);
+  const errorCount = c.byState.error ?? 0;
+  const errorRows = errorCount
+    ? await k('import_lines').where({ organization_id: actor.companyId, import_id: id, state: 'error' }).orderBy('row_number').limit(ROW_ERRORS_SHOWN).select('row_number', 'reason')
+    : [];
   const s = imp.summary;
   return {
     id: imp.id,
@@ -113,6 +117,7 @@ export async function getImport(actor: Actor, id: number, kind?: ImportKind, k: 
     previewRows: (s.previewRows as string[][]) ?? [],
     blankRows: (s.blankRows as number[]) ?? [],
     counts: counts(imp, c),
+    rowErrors: { total: errorCount, rows: errorRows.map((r) => ({ rowNumber: Number(r.row_number), reason: String(r.reason ?? '') })) },
     duplicateOf: imp.status === 'preview' ? await imports.committedWithHash(actor.companyId, imp.fileSha256, imp.id, k) : null,
     uploadedByName: imp.uploadedByName,
     uploadedAt: imp.uploadedAt,

@@ -14,6 +14,7 @@ import { audit } from '../repos/audit.ts';
 import { enqueueMail } from '../mail/outbox.ts';
 import { invoiceMail } from './billing-mail.ts';
 import { invoiceUrl, newNonce } from './invoice-links.ts';
+import { expireStaleCheckoutSessions } from './checkout-sessions.ts';
 
 type Q = Knex | Knex.Transaction;
 
@@ -280,6 +281,7 @@ export async function voidInvoice(actor: Actor, id: number, input: { reason: str
     await repo.updateInvoice(actor.companyId, newId, { replacesInvoiceId: id }, null, trx);
     return newId;
   });
+  await expireStaleCheckoutSessions({ companyId: actor.companyId, invoiceId: id });
   return { invoice: await getInvoice(actor, id), replacementId: replacement };
 }
 

@@ -14,6 +14,7 @@ import { receiptMail } from './billing-mail.ts';
 import { invoiceUrl } from './invoice-links.ts';
 import { getInvoice, tx } from './invoices.ts';
 import { stripe } from '../payments/stripe.ts';
+import { expireStaleCheckoutSessions } from './checkout-sessions.ts';
 
 /** The one way a payment lands, manual or by card: under the invoice's row lock. */
 export async function landPaymentTx(
@@ -74,6 +75,8 @@ export async function recordPayment(actor: Actor, invoiceId: number, input: Paym
   const s = await billingSettings(actor.companyId);
   if (input.receivedOn > todayIn(s.timezone)) throw new AppError('BAD_INPUT', 'Some fields need attention.', { receivedOn: 'A payment cannot be received in the future.' });
   const r = await tx((trx) => landPaymentTx(trx, actor, invoiceId, { ...input, reference: input.reference }));
+  // A hosted card page made for the old balance must not take money any more.
+  await expireStaleCheckoutSessions({ companyId: actor.companyId, invoiceId });
   return { paymentId: r.paymentId, invoice: await getInvoice(actor, invoiceId) };
 }
 
@@ -102,6 +105,7 @@ export async function refundPayment(actor: Actor, paymentId: number, input: { am
     await insertRefundTx(trx, actor, inv, pay, part, { amountCents: input.amountCents, reason: input.reason, stripeRefund });
     return inv.id;
   });
+  await expireStaleCheckoutSessions({ companyId: actor.companyId, invoiceId });
   return getInvoice(actor, invoiceId);
 }
 

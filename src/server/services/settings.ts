@@ -5,11 +5,11 @@ import { can } from '../../lib/auth/permissions.ts';
 import * as settings from '../repos/settings.ts';
 import { audit } from '../repos/audit.ts';
 
-/** Margins, burden and tax are for the roles that price work; a crew lead gets the rest. */
+/** Margins, burden, the cost flag and tax are for the roles that price work; a crew lead gets the rest. */
 export async function getSettings(actor: Actor): Promise<Partial<CompanySettings>> {
   const all = await settings.getSettings(actor.companyId);
   if (can(actor.role, 'bids:read')) return all;
-  const { targetMarginPct: _m, labourBurdenPct: _b, taxRatePct: _t, bidRoundingCents: _r, ...rest } = all;
+  const { targetMarginPct: _m, labourBurdenPct: _b, costFlagPct: _f, taxRatePct: _t, bidRoundingCents: _r, ...rest } = all;
   return rest;
 }
 

@@ -11,6 +11,7 @@ import { verifyWebhook } from '../payments/stripe.ts';
 import { insertRefundTx, landPaymentTx } from './payments.ts';
 import { tx } from './invoices.ts';
 import { bumpDataVersion } from '../report-cache.ts';
+import { expireStaleCheckoutSessions, markCheckoutSession } from './checkout-sessions.ts';
 
 /** What Tallypost put in the metadata when it made the checkout session; refused unless it reads back exactly. */
 const metadata = z.object({ invoice_id: z.string().regex(/^\d{1,15}$/), organization_id: z.string().min(1).max(36) });
@@ -30,9 +31,7 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
   const event = v.event;
   // The event row is inserted first: a second delivery of the same id waits on it and then
   // finds it taken; nothing else is locked before the invoice row.
-  let changed = null as string | null;
   const outcome = await tx(async (trx) => {
-    changed = null;
     try {
       await trx('stripe_events').insert({ id: event.id, type: event.type, outcome: 'processing' });
     } catch (err) {
@@ -41,11 +40,14 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
     }
     const result = await apply(trx, event);
     await trx('stripe_events').where('id', event.id).update({ organization_id: result.companyId, invoice_id: result.invoiceId, outcome: result.outcome.slice(0, 200) });
-    changed = result.companyId;
-    return result.outcome;
+    return result;
   });
-  if (changed) await bumpDataVersion(changed).catch(() => undefined);
-  return { status: 200, body: { received: true, outcome } };
+  if (typeof outcome === 'string') return { status: 200, body: { received: true, outcome } };
+  // What the reports show may have changed (a payment, a refund).
+  if (outcome.companyId) await bumpDataVersion(outcome.companyId).catch(() => undefined);
+  // Paid in full by card: any other hosted page still open for this invoice is closed.
+  if (outcome.companyId && outcome.invoiceId) await expireStaleCheckoutSessions({ companyId: outcome.companyId, invoiceId: outcome.invoiceId });
+  return { status: 200, body: { received: true, outcome: outcome.outcome } };
 }
 
 interface Applied { companyId: string | null; invoiceId: number | null; outcome: string }
@@ -67,6 +69,7 @@ async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event):
       const inv = await repo.findInvoice(companyId, invoiceId, trx);
       if (!inv || !intent || !Number.isSafeInteger(amount) || amount <= 0) return { companyId: null, invoiceId: null, outcome: 'ignored: no such invoice' };
       const s = await billingSettings(companyId, trx);
+      if (isSession) await markCheckoutSession(companyId, String(obj.id), 'complete', trx);
       const r = await landPaymentTx(trx, system(companyId), invoiceId, {
         method: 'card', amountCents: fromStripeAmount(amount, s.currency), receivedOn: todayIn(s.timezone, new Date(event.created * 1000)),
         reference: intent, asCredit: true, stripePaymentIntent: intent, stripeCheckoutSession: isSession ? String(obj.id) : null,

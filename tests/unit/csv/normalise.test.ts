@@ -73,6 +73,25 @@ describe('receipt rows', () => {
     expect(lines[2].memo).toBe('PO 142');
   });
 
+  it('takes the tax back with a return, however the receipt signs it', () => {
+    const text = [
+      'Date,Receipt,Description,Qty,Amount,Tax',
+      '2026-03-09,R-1,Returned posts,-4,56.80,4.19',
+      '2026-03-09,R-2,Returned posts,4,(56.80),4.19',
+      '2026-03-09,R-3,Returned posts,-4,-56.80,-4.19',
+      '2026-03-09,R-4,Posts,4,56.80,4.19',
+    ].join('\n');
+    const { rows } = run(text, { dateFormat: 'iso', columns: { date: 'Date', receiptNumber: 'Receipt', description: 'Description', quantity: 'Qty', amount: 'Amount', tax: 'Tax' } });
+    const lines = rows.map((r) => (r.kind === 'line' ? r.values : null)!);
+    // 56.80 + 4.19 = 60.99 either way; a return is the same amount the other way.
+    expect(lines.map((l) => [l.amountCents, l.taxCents, l.totalCents])).toEqual([
+      [-5680, -419, -6099],
+      [-5680, -419, -6099],
+      [-5680, -419, -6099],
+      [5680, 419, 6099],
+    ]);
+  });
+
   it('reports blank, total and bad rows with their row numbers and plain reasons', () => {
     const { rows } = run(file, { dateFormat: 'iso', columns: { date: 'Date', sku: 'SKU', description: 'Description', quantity: 'Qty', unitPrice: 'Unit Price', amount: 'Amount' } });
     const other = rows.filter((r) => r.kind !== 'line').map((r) => [r.row, r.kind, 'reason' in r ? r.reason : '']);

@@ -30,7 +30,7 @@ export default function ImportReview({ detail: d, kind, endpoint, busy, onCommit
         <div className="rounded-md bg-galv-50 p-2"><dt className="text-xs text-galv-600">Skipped: totals, blank rows</dt><dd className="text-lg font-semibold">{c.skipped} + {c.blank}</dd></div>
         <div className="rounded-md bg-galv-50 p-2"><dt className="text-xs text-galv-600">Already imported</dt><dd className="text-lg font-semibold">{c.duplicates}</dd></div>
       </dl>
-      {d.duplicateOf && <Notice tone="warn">This exact file was imported before as import #{d.duplicateOf.id}; committing it adds nothing.</Notice>}
+      {d.duplicateOf && <Notice tone="warn">This exact file was imported before as import #{d.duplicateOf.id}. Its lines already imported are left out; only rows fixed here that were not imported then are added.</Notice>}
       {blocked && <p role="alert" className="field-error">{Object.values(d.mappingProblems).join(' ')}</p>}
       {(c.errors > 0 || c.skipped > 0 || c.duplicates > 0) && (
         <details open={c.errors > 0}>

@@ -15,6 +15,7 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
     paymentTermsDays: String(initial.paymentTermsDays),
     targetMarginPct: String(initial.targetMarginPct),
     labourBurdenPct: String(initial.labourBurdenPct),
+    costFlagPct: String(initial.costFlagPct),
     taxMode: initial.taxMode,
     taxRatePct: String(initial.taxRatePct),
     bidRoundingDollars: String(initial.bidRoundingCents / 100),
@@ -62,6 +63,7 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
         {input('paymentTermsDays', 'Payment terms (days)', '0 means due on receipt.', 'number')}
         {input('targetMarginPct', 'Target gross margin (%)', 'Bids are priced to this margin unless the estimator changes it.', 'number')}
         {input('labourBurdenPct', 'Labour burden (%)', 'Payroll taxes, workers\' compensation, insurance and benefits on top of wages.', 'number')}
+        {input('costFlagPct', 'Flag costs over estimate by (%)', 'Job costing marks a category whose actual cost runs more than this over its estimate.', 'number')}
         <Field id="taxMode" label="Sales tax on invoices" error={fields.taxMode}>
           {(p) => <select {...p} value={v.taxMode} onChange={set('taxMode')}>{TAX_MODES.map((m) => <option key={m} value={m}>{TAX_MODE_LABELS[m]}</option>)}</select>}
         </Field>
