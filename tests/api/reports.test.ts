@@ -307,12 +307,13 @@ describe("the owner's dashboard tiles", () => {
   /** A tile's text by its test id in the server-rendered page. */
   const tile = (html: string, id: string) => html.match(new RegExp(`data-testid="${id}"[^>]*>([^<]*)<`))?.[1] ?? null;
   /** The from/to of a link on the page whose address starts with /margins and carries both. */
-  const ranges = (html: string) => [...html.matchAll(/href="\/margins\?from=(\d{4}-\d{2}-\d{2})&(?:amp;)?to=(\d{4}-\d{2}-\d{2})"/g)].map((m) => ({ from: m[1], to: m[2] }));
+  const ranges = (html: string) => [...html.matchAll(/href="\/margins\?from=(\d{4}-\d{2}-\d{2})&(?:amp;|#38;)?to=(\d{4}-\d{2}-\d{2})"/g)].map((m) => ({ from: m[1], to: m[2] }));
 
   it('shows the quarter margin, the jobs at risk and the best and worst styles as an independent computation on the same rows finds them', async () => {
     const page = await dash.owner.get('/');
     expect(page.status).toBe(200);
     const html = page.text;
+    expect(ranges(html)).toHaveLength(2);
     const [quarter, year] = ranges(html);
     expect(quarter.from).toBe(qStart);
 

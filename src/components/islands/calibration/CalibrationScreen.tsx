@@ -90,18 +90,18 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
       </section>
 
       <ChartCard id="chart-backtest" wideTable title="Backtest: the bids' cost error by style" note="Mean absolute percentage error of each style's bids against its finished jobs, judged leave one out. Lower is better."
-        chart={<Bar role="img" aria-label="Bar chart of each style's bid cost error with today's rates and with the suggested rates; the numbers are in the table beside it." data={chart} options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Mean absolute error, % of cost' }, beginAtZero: true } } })} />}
+        chart={<Bar role="img" aria-label="Bar chart of each style's bid cost error with today's rates and with the suggested rates; the numbers are in the table beside it." data={chart} options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Error, % of cost' }, beginAtZero: true } } })} />}
         table={
           <table className="table-dense" data-testid="backtest-table">
-            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Error today</th><th className="num">Bias</th><th className="num">With suggestions</th><th className="num">Bias</th></tr></thead>
-            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td className="min-w-40"><button type="button" className="text-left text-timber-700 underline" onClick={() => setShown(s.styleId)}>{s.styleName}</button></td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{err(s.backtest?.current)}</td><td className="num">{bias(s.backtest?.current)}</td><td className="num">{err(s.backtest?.suggested)}</td><td className="num">{bias(s.backtest?.suggested)}</td></tr>)}</tbody>
+            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Error today</th><th className="num">With suggestions</th></tr></thead>
+            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td className="min-w-40"><button type="button" className="text-left text-timber-700 underline" onClick={() => setShown(s.styleId)}>{s.styleName}</button></td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{err(s.backtest?.current)}</td><td className="num">{err(s.backtest?.suggested)}</td></tr>)}</tbody>
           </table>
         } />
 
       <ChartCard id="chart-bias" wideTable title="Backtest: the bids' bias by style"
         note="Mean signed error of each style's bids against its finished jobs, judged leave one out: below the zero line the bids ran low (the jobs cost more), above it high. Closer to zero is better."
         chart={<Bar role="img" aria-label="Bar chart of each style's bid cost bias with today's rates and with the suggested rates, around a zero line; the numbers are in the table beside it." data={biasChart}
-          options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Mean signed error, % of cost (below 0: bids low)' }, grid: ZERO_LINE } } })} />}
+          options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Bias, % of cost' }, grid: ZERO_LINE } } })} />}
         table={
           <table className="table-dense" data-testid="bias-table">
             <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Bias today</th><th className="num">With suggestions</th></tr></thead>
@@ -267,8 +267,8 @@ function StyleSection({ style: s, data, money, mayApply, busy, message, onApply,
       )}
       {message && <p className={`mt-2 text-sm ${message.ok ? 'text-moss-700' : 'field-error'}`} role={message.ok ? 'status' : 'alert'} data-testid="apply-message">{message.text}</p>}
 
-      <div className="mt-4 grid gap-4 lg:grid-cols-2">
-        <div>
+      <div className="mt-4 space-y-4">
+        <div className="max-w-2xl">
           <h3 className="mb-1 text-sm font-semibold text-galv-800">Actual ÷ estimated cost, by category</h3>
           <table className="table-dense">
             <thead><tr><th>Category</th><th className="num">Jobs</th><th className="num">Median (middle half)</th></tr></thead>
@@ -282,8 +282,8 @@ function StyleSection({ style: s, data, money, mayApply, busy, message, onApply,
         <details>
           <summary className="cursor-pointer text-sm font-semibold text-galv-800">History of {s.styleName}'s rates and waste ({history.length} versions)</summary>
           <table className="table-dense mt-2" data-testid="rate-history">
-            <thead><tr><th>When</th><th>Rate or waste</th><th className="num">Version</th><th className="num">Value</th><th>Who and why</th></tr></thead>
-            <tbody>{history.map((h) => <tr key={h.key}><td className="whitespace-nowrap">{formatDate(h.at)}</td><td>{h.what}</td><td className="num">{h.versionNo}</td><td className="num">{h.value}</td><td>{h.who ?? '—'}: {h.reason}</td></tr>)}</tbody>
+            <thead><tr><th>When</th><th>Rate or waste</th><th className="num">Version</th><th className="num">Value</th><th>Who</th><th>Why</th></tr></thead>
+            <tbody>{history.map((h) => <tr key={h.key}><td className="whitespace-nowrap">{formatDate(h.at)}</td><td className="min-w-40">{h.what}</td><td className="num">{h.versionNo}</td><td className="num">{h.value}</td><td className="whitespace-nowrap">{h.who ?? '—'}</td><td>{h.reason}</td></tr>)}</tbody>
           </table>
         </details>
       </div>

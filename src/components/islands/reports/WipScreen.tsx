@@ -78,8 +78,8 @@ export default function WipScreen({ initial }: { initial: WipData }) {
       </ul>
       <p className="text-xs text-galv-600" data-testid="wip-method">
         Complete = cost to date ÷ the estimated total cost. That estimate is the bid's cost with approved change orders, except that a cost group
-        (material, labour, rental, other) that has already spent past its estimate counts at what it has spent, so a job over its bid is not shown
-        further along, or as having earned more, than it is. Earned = contract × complete; over or under = billed − earned.
+        (material, labour, rental, other) already spent past its estimate counts at what it has spent and no underrun is counted before the job is
+        done; so a job over its bid is not shown further along, or as having earned more, than it is.
       </p>
       <Scroll label="Open jobs" className="overflow-x-auto rounded-lg border border-galv-200 bg-white" testId="wip-table">
         <SortableTable table={table} loading={loading} empty="No open jobs match these filters."
