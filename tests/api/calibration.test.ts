@@ -92,6 +92,40 @@ describe('calibration suggestions and their backtest', () => {
     expect(itemOf(r.body, wood, 'labour:posts').n).toBe(5);
   });
 
+  it('calibrates the hours a rental day covers from the digging each job took and the auger days it rented', async () => {
+    // Without a dig rental on record there is nothing to go on, and the item says so.
+    let r = await co.estimator.get('/api/calibration');
+    expect(itemOf(r.body, wood, 'rental:day_hours')).toMatchObject({ n: 0, suggested: null });
+    expect(itemOf(r.body, wood, 'rental:day_hours').reason).toMatch(/Only 0 finished jobs/);
+    // Two auger days on each finished wood job, and a trailer day that is not digging equipment.
+    const wj = jobs.filter((j) => j.spec.style === 'wood_privacy' && j.spec.status === 'completed');
+    await testDb()('rentals').insert(wj.flatMap((j) => [
+      { organization_id: co.id, job_id: j.jobId, kind: 'earth_auger', start_at: '2026-03-02 07:00', end_at: '2026-03-03 15:00', days: 2, cost_cents: null },
+      { organization_id: co.id, job_id: j.jobId, kind: 'trailer', start_at: '2026-03-02 07:00', end_at: '2026-03-02 15:00', days: 1, cost_cents: null },
+    ]));
+    try {
+      // Worked from the rows apart from the app: the bid's digging hours (its takeoff's rental
+      // rule covers them) × the posts task's logged ÷ bid person-hours, ÷ 2 days.
+      const [rows] = await testDb().raw(
+        `SELECT b.takeoff, (SELECT l.man_hours FROM bid_labour l WHERE l.bid_id = b.id AND l.task = 'posts') AS bid_h,
+           (SELECT SUM(t.hours) FROM time_entries t WHERE t.job_id = j.id AND t.task = 'dig_set_posts') AS logged_h
+         FROM jobs j JOIN bids b ON b.job_id = j.id AND b.status = 'accepted' WHERE j.organization_id = ? AND j.status = 'completed' AND b.style_id = ?`, [co.id, wood]);
+      const achieved = (rows as { takeoff: string | { rentals: { coversHours: number }[] }; bid_h: string; logged_h: string }[]).map((x) => {
+        const t = typeof x.takeoff === 'string' ? JSON.parse(x.takeoff) : x.takeoff;
+        return (t.rentals[0].coversHours * (Number(x.logged_h) / Number(x.bid_h))) / 2;
+      });
+      r = await co.estimator.get('/api/calibration');
+      const item = itemOf(r.body, wood, 'rental:day_hours');
+      expect(item.n).toBe(5);
+      expect(item.kind).toBe('rental');
+      expect(item.rateKinds).toEqual(['rental_day_hours']);
+      expect(item.suggested).toBeCloseTo(ss.median(achieved), 1);
+      expect(item.suggestedValues.rental_day_hours).toBe(item.suggested);
+    } finally {
+      await testDb()('rentals').whereIn('job_id', wj.map((j) => j.jobId)).delete();
+    }
+  });
+
   it('weights recent jobs when asked, and refuses a nonsense half-life', async () => {
     const r = await co.estimator.get('/api/calibration?halfLifeDays=180');
     expect(r.status).toBe(200);
@@ -165,17 +199,77 @@ describe('applying a suggestion', () => {
     expect(postsLine.crewHours).toBeCloseTo(bid.body.takeoff.holes * (rate('hole_hours') + rate('post_set_hours')), 3);
   });
 
-  it('writes a waste percent into the style\'s recipe; the next bid buys by it', async () => {
+  it('refuses a waste suggestion when the same waste was changed while it waited for the style', async () => {
     const r0 = await co.estimator.get('/api/calibration');
     const conc = itemOf(r0.body, chain, 'waste:concrete');
-    const r = await co.owner.post('/api/calibration/apply', { styleId: chain, items: [{ key: 'waste:concrete', suggested: conc.suggested }], reason: 'Augered holes run wide in the sand' });
+    const { result } = await whileStyleLocked(chain, (recipe) => ({ ...recipe, wastePct: { ...recipe.wastePct, concrete: 12 } }),
+      () => co.owner.post('/api/calibration/apply', { styleId: chain, items: [{ key: 'waste:concrete', suggested: conc.suggested }], reason: 'Augered holes run wide in the sand' }));
+    expect(result.status).toBe(409);
+    expect((await co.estimator.get(`/api/styles/${chain}`)).body.recipe.wastePct.concrete).toBe(12);
+  });
+
+  it('writes a waste percent into the style\'s recipe under its row lock, keeps a waste version, and the next bid buys by it', async () => {
+    const r0 = await co.estimator.get('/api/calibration');
+    const conc = itemOf(r0.body, chain, 'waste:concrete');
+    const before = conc.currentValues.concrete;
+    // Someone saves the style's gravel waste while the apply waits for the row: both changes stand.
+    const { result: r } = await whileStyleLocked(chain, (recipe) => ({ ...recipe, wastePct: { ...recipe.wastePct, gravel: 17 } }),
+      () => co.owner.post('/api/calibration/apply', { styleId: chain, items: [{ key: 'waste:concrete', suggested: conc.suggested }], reason: 'Augered holes run wide in the sand' }));
     expect(r.status).toBe(200);
     const style = await co.estimator.get(`/api/styles/${chain}`);
     expect(style.body.recipe.wastePct.concrete).toBe(conc.suggested);
+    expect(style.body.recipe.wastePct.gravel).toBe(17);
     expect(itemOf(r.body, chain, 'waste:concrete').current).toBe(conc.suggested);
+    // The history: old, new, who, when and why, as labour rate versions keep them.
+    const versions = await testDb()('waste_versions').where({ organization_id: co.id, style_id: chain, waste_key: 'concrete' }).orderBy('version_no', 'desc');
+    expect(versions[0]).toMatchObject({ created_by: co.userIds.owner });
+    expect(Number(versions[0].old_pct)).toBe(before);
+    expect(Number(versions[0].new_pct)).toBe(conc.suggested);
+    expect(versions[0].reason).toMatch(/Calibrated from 5 finished jobs: Augered holes run wide in the sand/);
+    expect(versions[0].created_at).toBeInstanceOf(Date);
+    const shown = r.body.wasteHistory[String(chain)].find((h: { wasteKey: string }) => h.wasteKey === 'concrete');
+    expect(shown).toMatchObject({ oldPct: before, newPct: conc.suggested, reason: versions[0].reason });
+    expect(shown.createdByName).toBeTruthy();
+    expect(r.body.currency).toBe('USD');
+    // A hand edit of the style's waste is kept the same way.
+    const edited = await co.owner.patch(`/api/styles/${chain}`, { recipe: { ...style.body.recipe, wastePct: { ...style.body.recipe.wastePct, posts: 3 } } });
+    expect(edited.status).toBe(200);
+    const hand = await testDb()('waste_versions').where({ organization_id: co.id, style_id: chain, waste_key: 'posts' }).orderBy('version_no', 'desc').first();
+    expect(Number(hand.new_pct)).toBe(3);
+    expect(Number(hand.old_pct)).toBe(style.body.recipe.wastePct.posts);
+    expect(hand.reason).toMatch(/by hand/);
     const customer = await makeCustomer(co.owner);
     const job = await makeJob(co.owner, customer.id, { fenceStyleId: chain });
     const bid = await co.estimator.post(`/api/jobs/${job.id}/bids`, { styleId: chain, runs: [{ lengthFt: 100, heightIn: 48 }], gates: [], target: { mode: 'margin', pct: 30 } });
     expect(bid.body.lines.find((l: { sku: string }) => l.sku === 'CONC-50').wastePct).toBe(conc.suggested);
   });
 });
+
+/**
+ * Holds the style's row lock in a transaction of our own, starts `request`, waits until it is
+ * blocked on that lock, then writes `edit` of the recipe and commits: what a concurrent save of
+ * the style looks like to the request.
+ */
+async function whileStyleLocked<T>(style: number, edit: (recipe: any) => any, request: () => Promise<T>): Promise<{ result: T }> {
+  const trx = await testDb().transaction();
+  let pending: Promise<T> | undefined;
+  try {
+    const row = await trx('fence_styles').where({ id: style }).forUpdate().first('recipe');
+    pending = request();
+    const deadline = Date.now() + 30_000;
+    for (;;) {
+      const [waits] = await testDb().raw("SELECT COUNT(*) AS n FROM information_schema.innodb_trx WHERE trx_state = 'LOCK WAIT' AND trx_query LIKE '%fence_styles%for update%'");
+      if (Number(waits[0].n) > 0) break;
+      if (Date.now() > deadline) throw new Error('the request never waited for the style lock');
+      await new Promise((res) => setTimeout(res, 50));
+    }
+    const recipe = typeof row.recipe === 'string' ? JSON.parse(row.recipe) : row.recipe;
+    await trx('fence_styles').where({ id: style }).update({ recipe: JSON.stringify(edit(recipe)) });
+    await trx.commit();
+  } catch (e) {
+    await trx.rollback();
+    if (pending) await pending.catch(() => undefined);
+    throw e;
+  }
+  return { result: await pending! };
+}

@@ -22,10 +22,20 @@ describe('the estimator calibrates the wood privacy rates', () => {
     // The backtest: bids for wood privacy ran low, and the suggestions would have been closer.
     const row = page.getByTestId('backtest-table').locator('tr[data-style="Wood privacy 6 ft"]');
     const today = pctOf(await row.locator('td').nth(2).textContent());
-    const suggested = pctOf(await row.locator('td').nth(4).textContent());
-    expect(await row.locator('td').nth(3).textContent()).toMatch(/^-\d+\.\d % \(low\)$/);
+    const suggested = pctOf(await row.locator('td').nth(3).textContent());
     expect(suggested).toBeLessThan(today);
     await expect.poll(async () => (await page.getByTestId('chart-backtest-chart').locator('canvas').boundingBox())?.height ?? 0).toBeGreaterThan(100);
+    // The bias has its own chart and numbers: today's bids ran low, the suggestions less so.
+    await expect.poll(async () => (await page.getByTestId('chart-bias-chart').locator('canvas').boundingBox())?.height ?? 0).toBeGreaterThan(100);
+    const biasRow = page.getByTestId('bias-table').locator('tr[data-style="Wood privacy 6 ft"]');
+    const biasToday = pctOf(await biasRow.locator('td').nth(2).textContent());
+    expect(await biasRow.locator('td').nth(2).textContent()).toMatch(/^-\d+\.\d % \(low\)$/);
+    expect(Math.abs(pctOf(await biasRow.locator('td').nth(3).textContent()))).toBeLessThan(Math.abs(biasToday));
+    // Unit costs and money read in the company's currency, with a suggested book price where enough jobs bought the item.
+    expect(await page.getByTestId('unit-costs').textContent()).toMatch(/\$\d+\.\d{2}/);
+    expect(await page.getByTestId('unit-costs').locator('td strong').count()).toBeGreaterThan(0);
+    await page.getByTestId('chart-bias').scrollIntoViewIfNeeded();
+    await shot(page, 'calibration-backtest-bias');
     // The chain-link jobs poured far more concrete than their takeoff.
     await page.getByTestId('style-tabs').getByRole('button', { name: /Chain link 4 ft/ }).click();
     const concrete = page.locator('tr[data-item="waste:concrete"]');
@@ -38,6 +48,9 @@ describe('the estimator calibrates the wood privacy rates', () => {
     const posts = Number(await section.getByTestId('suggested-labour:posts').textContent());
     const rails = Number(await section.getByTestId('suggested-labour:rails_infill').textContent());
     expect(await section.locator('tr[data-item="labour:posts"]').textContent()).toMatch(/1\.2\d× /);
+    // The hours a rental day covers are an item of their own, with how they are measured said beside them.
+    expect(await section.locator('tr[data-item="rental:day_hours"]').count()).toBe(1);
+    expect(await section.getByTestId('rental-note').textContent()).toMatch(/digging a job took/);
     await section.locator('tr[data-item="labour:posts"]').getByRole('button', { name: 'Jobs' }).click();
     expect(await section.getByRole('table', { name: /Jobs behind dig holes/ }).locator('tbody tr').count()).toBeGreaterThanOrEqual(5);
     await shot(page, 'calibration-wood-privacy');

@@ -74,6 +74,15 @@ describe('the owner reads margins by style', () => {
     await page.getByTestId('margin-tiles').waitFor();
     expect(await page.getByTestId('quarter-margin').textContent()).toMatch(/%|—/);
     await shot(page, 'dashboard-margin-tiles-phone');
+    // The dashboard's best and worst styles are the ones the margins screen names over the same twelve months.
+    const best = await page.getByTestId('margin-tiles').getByTestId('best-style').textContent();
+    const worst = await page.getByTestId('margin-tiles').getByTestId('worst-style').textContent();
+    expect(best).toBeTruthy();
+    await page.getByTestId('best-worst').click();
+    await page.waitForURL(/\/margins\?from=\d{4}-\d{2}-\d{2}&to=\d{4}-\d{2}-\d{2}$/);
+    await hydrated(page);
+    expect(await page.getByTestId('margins-screen').getByTestId('best-style').textContent()).toBe(best);
+    expect(await page.getByTestId('margins-screen').getByTestId('worst-style').textContent()).toBe(worst);
     await ctx.close();
 
     const bctx = await browser.newContext({ viewport: { width: 1440, height: 900 } });
@@ -84,6 +93,9 @@ describe('the owner reads margins by style', () => {
     expect(wip.jobs.length).toBeGreaterThan(0);
     expect(await books.getByTestId('wip-earned').textContent()).toBe(formatMoney(wip.totals.earnedCents));
     expect(await books.getByTestId('wip-table').locator('tbody tr').count()).toBe(wip.jobs.length);
+    // Each job's estimated total cost is the one its percent complete divides by.
+    for (const j of wip.jobs) expect(j.percentComplete).toBeCloseTo(Math.round((j.costToDateCents / j.projectedCostCents) * 1000) / 10, 5);
+    expect(await books.getByTestId('wip-method').textContent()).toMatch(/cost to date ÷ the estimated total cost/);
     await shot(books, 'work-in-progress');
     await bctx.close();
   });

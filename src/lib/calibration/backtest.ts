@@ -32,6 +32,12 @@ export interface RateObservation {
    * against the suggestion, not the rates of the day each job was bid.
    */
   currentRate?: number;
+  /**
+   * What this work costs the bid at a rate, cents, when that is not linear in the rate (rental
+   * days round up to whole or half days). Without it, a rate change re-prices
+   * (rate − bid rate) × quantity × hourCostCents.
+   */
+  costAt?: (rate: number) => number;
 }
 
 export interface Suggestion {
@@ -126,7 +132,7 @@ export function backtest(obs: readonly RateObservation[], opts: SuggestOptions =
   const rows: BacktestRow[] = obs.map((o, i) => {
     const others = obs.filter((_, j) => j !== i);
     const fit = suggestRate(others, opts).rate;
-    const reprice = (rate: number) => o.estimatedCostCents + roundAway((rate - o.bidRate) * o.quantity * o.hourCostCents);
+    const reprice = (rate: number) => o.estimatedCostCents + (o.costAt ? o.costAt(rate) - o.costAt(o.bidRate) : roundAway((rate - o.bidRate) * o.quantity * o.hourCostCents));
     const suggestedCost = fit === null ? null : reprice(fit);
     const currentCost = o.currentRate === undefined ? o.estimatedCostCents : reprice(o.currentRate);
     return { jobId: o.jobId, actualCostCents: o.actualCostCents, currentCostCents: currentCost, suggestedCostCents: suggestedCost, fittedRate: fit };

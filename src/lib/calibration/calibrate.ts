@@ -40,6 +40,13 @@ export interface FinishedJob {
   materials: Partial<Record<WasteKey, { wastePct: number; takeoffCents: number; buyCents: number; boughtCents: number }>>;
   /** Rental days: as bid, and as rented. */
   rentalDays: { bid: number; actual: number };
+  /**
+   * The equipment that digs the holes, for the rental-day rate: the bid's digging crew-hours
+   * (holes × its dig rate, what its rental rules cover), how many rental rules the recipe has,
+   * whether they rent half days, the days each rule was bid for and what the bid's rental
+   * lines cost; and the days of digging equipment the job rented. Null without a dig rental bid.
+   */
+  digRental?: { bidDigHours: number; rules: number; halfDays: boolean; bidDaysPerRule: number; bidCostCents: number; actualDays: number } | null;
 }
 
 /** 'job' leaves the whole job out; an item key leaves it out of that item only. */
@@ -68,9 +75,31 @@ export const TASK_RATES: Record<LabourTask, { kinds: RateKind[]; per: string; qu
 export const WASTE_MAX_PCT = 50;
 /**
  * A suggestion closer than this to today's value, relative, is not worth a new version:
- * 2 % of a labour rate, 1 % of (1 + waste), about one point of waste.
+ * 2 % of a labour rate, 1 % of (1 + waste), about one point of waste, 3 % of the rental days
+ * an hour of digging takes (a quarter hour of an 8-hour rental day).
  */
-export const MIN_CHANGE = { labour: 0.02, waste: 0.01 } as const;
+export const MIN_CHANGE = { labour: 0.02, waste: 0.01, rental: 0.03 } as const;
+
+/** Equipment that digs or drives the holes: the rentals a recipe's dig rules stand for. */
+export const DIG_EQUIPMENT = ['earth_auger', 'skid_steer', 'post_driver', 'mini_excavator'] as const;
+
+/**
+ * Rental days for some hours of digging, as the takeoff counts them (lib/takeoff/takeoff.ts):
+ * whole days of `dayHours`, the rest rounded up to a half day when the rule rents half days
+ * and the rest fits in one, else to a whole day.
+ */
+export function rentalDaysFor(digHours: number, dayHours: number, halfDays: boolean): number {
+  if (!(digHours > 0) || !(dayHours > 0)) return 0;
+  const EPS = 1e-6;
+  let full = Math.floor(digHours / dayHours + EPS);
+  const rest = digHours - full * dayHours;
+  let half = 0;
+  if (rest > EPS) {
+    if (halfDays && rest <= dayHours / 2 + EPS) half = 1;
+    else full += 1;
+  }
+  return full + half / 2;
+}
 
 export interface ItemJob {
   jobId: number;
@@ -101,7 +130,7 @@ export interface ItemBacktest {
 /** What an item is: its key, words and the rates (or waste group) behind it. */
 interface ItemIdentity {
   key: string;
-  kind: 'labour' | 'waste';
+  kind: 'labour' | 'waste' | 'rental';
   label: string;
   unit: string;
   rateKinds: RateKind[];
@@ -109,7 +138,7 @@ interface ItemIdentity {
 }
 
 export interface CalibrationItem extends ItemIdentity {
-  /** Today's value in the item's unit: crew-h per unit, or a waste percent. */
+  /** Today's value in the item's unit: crew-h per unit, a waste percent, or hours of digging per rental day. */
   current: number;
   /** Today's value of each rate or waste key behind it. */
   currentValues: Record<string, number>;
@@ -169,6 +198,8 @@ interface Draft extends ItemIdentity {
   obs: (RateObservation & { code: string; excluded: string | null; boughtToTakeoff?: number })[];
   /** lib rate → the item's display unit */
   show: (rate: number) => number;
+  /** The display unit is the inverse of the lib's (hours per day against days per hour): actual ÷ bid is taken in the display unit. */
+  inverse?: boolean;
   values: (rate: number) => Record<string, number>;
 }
 
@@ -230,6 +261,54 @@ function wasteDrafts(jobs: FinishedJob[], currentWaste: Record<WasteKey, number>
   });
 }
 
+/**
+ * The rental-day rate (rental_day_hours): how many hours of digging one rental day of the
+ * auger covers. A job's achieved value is the digging it actually took ÷ the days of digging
+ * equipment it rented. The digging it took is not logged apart from setting posts, so it is
+ * the bid's digging hours scaled by how far the posts task (dig and set) ran over or under
+ * its bid; that way a new bid, whose digging hours come from a calibrated dig rate, divides
+ * them by a day of the same kind. Jobs with no dig rental recorded are not counted (the
+ * rental may simply not have been entered). The item works in rental days per hour of
+ * digging (the inverse), so the median and the re-pricing stay in one unit; the backtest
+ * re-prices each job's rental lines at the days the takeoff would round to, per rule, at the
+ * bid's own average price per rental day, with its digging hours as bid.
+ */
+function rentalDraft(jobs: FinishedJob[], current: Rates, ex: Exclusions, base: SuggestOptions, today: string): Draft[] {
+  if (!jobs.some((j) => j.digRental)) return [];
+  const key = 'rental:day_hours';
+  const currentRate = 1 / current.rental_day_hours;
+  const obs = jobs.flatMap((j) => {
+    const d = j.digRental;
+    const posts = j.labour.posts;
+    const bidDayHours = j.bidRates.rental_day_hours;
+    if (!d || !posts || !(posts.bidManHours > 0) || !(posts.actualManHours > 0) || !(d.bidDigHours > 0) || !(d.rules > 0) || !(d.bidDaysPerRule > 0) || !(d.actualDays > 0) || !(bidDayHours && bidDayHours > 0)) return [];
+    const dugHours = d.bidDigHours * (posts.actualManHours / posts.bidManHours);
+    const perRuleDay = d.bidCostCents / (d.bidDaysPerRule * d.rules);
+    // Rounding step "rental cost": rule-days × the bid's average price of a day, to the cent, half away from zero.
+    const costAt = (r: number) => {
+      const v = d.rules * rentalDaysFor(d.bidDigHours, 1 / r, d.halfDays) * perRuleDay;
+      return Math.sign(v) * Math.round(Math.abs(v));
+    };
+    return [{
+      jobId: j.jobId, code: j.code, quantity: dugHours, actualHours: d.actualDays / d.rules, ageDays: ageDays(j.completedOn, today), hourCostCents: perRuleDay * d.rules,
+      estimatedCostCents: j.estimatedCostCents, actualCostCents: j.actualCostCents, bidRate: 1 / bidDayHours, currentRate, costAt,
+      excluded: excludedFor(ex, j.jobId, key),
+    }];
+  });
+  const info = RATE_INFO.rental_day_hours;
+  const hours = (r: number) => round(1 / r, 1);
+  return [{
+    key, kind: 'rental' as const, label: 'Hours of digging a rental day covers', unit: 'h of digging per rental day', rateKinds: ['rental_day_hours'], wasteKey: null, currentRate,
+    currentValues: { rental_day_hours: current.rental_day_hours },
+    // A rental day of 1 to 24 hours (the rate's own limits), as days per hour.
+    opts: { ...base, bounds: { min: 1 / info.max, max: 1 / info.min } }, obs,
+    show: hours,
+    inverse: true,
+    // Rounding step "suggested rate": a tenth of an hour, as the rate is entered.
+    values: (r: number) => ({ rental_day_hours: hours(r) }),
+  }];
+}
+
 function finishItem(d: Draft, minJobs: number): CalibrationItem {
   const used = d.obs.filter((o) => !o.excluded);
   const s = suggestRate(used, d.opts);
@@ -239,13 +318,14 @@ function finishItem(d: Draft, minJobs: number): CalibrationItem {
   const held = s.rate !== null && free.rate !== null && d.show(free.rate) !== d.show(s.rate);
   const change = s.rate === null ? 0 : Math.abs(s.rate - d.currentRate) / (d.currentRate || 1);
   const achieved = (o: RateObservation) => o.actualHours / o.quantity;
+  const vsBid = (o: RateObservation) => (d.inverse ? o.bidRate / achieved(o) : achieved(o) / o.bidRate);
   const raw = used.map((o) => o.boughtToTakeoff).filter((x): x is number => x !== undefined);
   return {
     key: d.key, kind: d.kind, label: d.label, unit: d.unit, rateKinds: d.rateKinds, wasteKey: d.wasteKey,
     current: d.show(d.currentRate), currentValues: d.currentValues, n: used.length,
     bidMedian: used.length ? d.show(median(used.map((o) => o.bidRate))) : null,
     actualMedian: used.length ? d.show(median(used.map(achieved))) : null,
-    ratio: spreadOf(used.map((o) => achieved(o) / o.bidRate)),
+    ratio: spreadOf(used.filter((o) => !d.inverse || achieved(o) > 0).map(vsBid)),
     boughtToTakeoffMedian: medianOf(raw),
     suggested: s.rate === null ? null : d.show(s.rate), suggestedValues: s.rate === null ? null : d.values(s.rate), held,
     reason: s.rate === null ? s.reason ?? null : null, spread: s.spread,
@@ -255,7 +335,7 @@ function finishItem(d: Draft, minJobs: number): CalibrationItem {
     jobs: d.obs.map((o) => {
       const r = rows.get(o.jobId);
       return {
-        jobId: o.jobId, code: o.code, quantity: o.quantity, bid: d.show(o.bidRate), actual: d.show(achieved(o)), ratio: o.bidRate > 0 ? achieved(o) / o.bidRate : null,
+        jobId: o.jobId, code: o.code, quantity: o.quantity, bid: d.show(o.bidRate), actual: d.show(achieved(o)), ratio: o.bidRate > 0 && (!d.inverse || achieved(o) > 0) ? vsBid(o) : null,
         boughtToTakeoff: o.boughtToTakeoff ?? null, excluded: o.excluded, fittedRate: r?.fittedRate === null || r === undefined ? null : d.show(r.fittedRate),
         actualCostCents: o.actualCostCents, currentCostCents: r?.currentCostCents ?? null, suggestedCostCents: r?.suggestedCostCents ?? null,
       };
@@ -292,7 +372,7 @@ export function calibrateStyle(
   const mine = jobs.filter((j) => j.styleId === current.styleId);
   const minJobs = opts.minJobs ?? MIN_JOBS;
   const base: SuggestOptions = { minJobs, recencyHalfLifeDays: opts.halfLifeDays };
-  const drafts = [...labourDrafts(mine, current.rates, ex, base, opts.today), ...wasteDrafts(mine, current.wastePct, ex, base, opts.today)];
+  const drafts = [...labourDrafts(mine, current.rates, ex, base, opts.today), ...wasteDrafts(mine, current.wastePct, ex, base, opts.today), ...rentalDraft(mine, current.rates, ex, base, opts.today)];
   const items = drafts.map((d) => finishItem(d, minJobs));
   const used = mine.filter((j) => !ex.get(j.jobId)?.has('job'));
   const ratio = (xs: [number, number][]) => spreadOf(xs.filter(([, b]) => b > 0).map(([a, b]) => a / b));

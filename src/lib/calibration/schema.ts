@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
-/** An item of a style's calibration: a labour task or a material group. */
-export const ITEM_KEY = /^(labour:(posts|rails_infill|gates|setup)|waste:(posts|rails|infill|cap|concrete|gravel|hardware|gates))$/;
+/** An item of a style's calibration: a labour task, a material group, or the rental-day rate. */
+export const ITEM_KEY = /^(labour:(posts|rails_infill|gates|setup)|waste:(posts|rails|infill|cap|concrete|gravel|hardware|gates)|rental:day_hours)$/;
 
 const reason = z.string().trim().min(5, 'Say why (at least 5 characters).').max(500, 'At most 500 characters.');
 

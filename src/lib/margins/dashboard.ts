@@ -17,11 +17,15 @@ export function yearBefore(today: string): string {
   return d.toISOString().slice(0, 10);
 }
 
+/** Jobs with a measured length a style needs before it is called best or worst (one job is an anecdote). */
+export const BEST_WORST_MIN_JOBS = 2;
+
 /**
  * The styles that earn the most and the least gross profit per linear foot, among styles
- * with at least `minJobs` jobs with a measured length (one job is an anecdote).
+ * with at least `minJobs` jobs with a measured length. The dashboard and the margins screen
+ * both name them by this rule.
  */
-export function bestAndWorst(styles: readonly StyleMargin[], minJobs = 2): { best: StyleMargin | null; worst: StyleMargin | null; ranked: StyleMargin[] } {
+export function bestAndWorst(styles: readonly StyleMargin[], minJobs = BEST_WORST_MIN_JOBS): { best: StyleMargin | null; worst: StyleMargin | null; ranked: StyleMargin[] } {
   const ranked = styles
     .filter((s) => s.styleId !== null && s.jobsWithFeet >= minJobs && s.grossProfitPerFtCents !== null)
     .sort((a, b) => b.grossProfitPerFtCents! - a.grossProfitPerFtCents! || a.styleName.localeCompare(b.styleName));

@@ -93,7 +93,8 @@ const WIP_COLUMNS: CsvColumn<WipCsvRow>[] = [
   text('Style', (r) => r.styleName),
   text('Status', (r) => (r.status ? JOB_STATUS_LABELS[r.status as keyof typeof JOB_STATUS_LABELS] : '')),
   money('Contract', (r) => r.contractCents),
-  money('Estimated total cost', (r) => r.estimatedCostCents),
+  money('Estimated cost, bid and change orders', (r) => r.estimatedCostCents),
+  money('Estimated total cost, overruns to date included', (r) => r.projectedCostCents),
   money('Cost to date', (r) => r.costToDateCents),
   num('Percent complete', (r) => r.percentComplete),
   money('Earned revenue', (r) => r.earnedCents),
@@ -109,7 +110,7 @@ export function wipCsv(w: WipReport): string {
   const total: WipCsvRow = {
     jobId: 0, code: 'Total', title: `${w.jobs.length} open jobs, ${t.atRisk} at risk`, status: '', styleName: null, estimatorName: null, customerName: '',
     contractCents: t.contractCents, estimatedCostCents: t.estimatedCostCents, costToDateCents: t.costToDateCents, percentComplete: null, overEstimate: false,
-    earnedCents: t.earnedCents, billedCents: t.billedToDateCents, overUnderCents: t.netOverUnderCents, projectedCostCents: 0,
+    earnedCents: t.earnedCents, billedCents: t.billedToDateCents, overUnderCents: t.netOverUnderCents, projectedCostCents: t.projectedCostCents,
     projectedGrossProfitCents: t.projectedGrossProfitCents, projectedMarginPct: null, estimatedMarginPct: null, atRisk: null,
   };
   return toCsv<WipCsvRow>(WIP_COLUMNS, [...w.jobs, total]);

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { db, toInt } from '../db.ts';
-import type { FinishedJob } from '../../lib/calibration/calibrate.ts';
+import { DIG_EQUIPMENT, type FinishedJob } from '../../lib/calibration/calibrate.ts';
 import type { UnitCostRow } from '../../lib/calibration/unit-costs.ts';
 import type { LabourTask } from '../../lib/takeoff/rates.ts';
 import type { RateKind } from '../../lib/takeoff/rates.ts';
@@ -33,7 +33,7 @@ export async function finishedJobs(companyId: string, q: Q = db()): Promise<{ jo
   const jobIds = base.map((r) => Number(r.id));
   const bidIds = base.map((r) => Number(r.bid_id));
   const org = { organization_id: companyId };
-  const [figures, labour, snaps, labourCost, hours, lines, bought, rentals] = await Promise.all([
+  const [figures, labour, snaps, labourCost, hours, lines, bought, rentals, rentalLines] = await Promise.all([
     jobFigures(companyId, { status: FINISHED_STATUSES }, q),
     q('bid_labour').where(org).whereIn('bid_id', bidIds).select('bid_id', 'task', 'crew_hours', 'man_hours'),
     q('bid_rate_snapshots').where(org).whereIn('bid_id', bidIds).select('bid_id', 'kind', 'value'),
@@ -42,22 +42,40 @@ export async function finishedJobs(companyId: string, q: Q = db()): Promise<{ jo
     q('bid_lines').where({ ...org, kind: 'material' }).whereIn('bid_id', bidIds).select('bid_id', 'sku', 'description', 'takeoff_qty', 'buy_qty', 'waste_pct', 'unit_cost_cents'),
     q('cost_lines').where(org).whereIn('job_id', jobIds).whereNotNull('sku').groupBy('job_id', 'sku')
       .select('job_id', 'sku', q.raw('SUM(quantity) AS qty'), q.raw('SUM(CASE WHEN quantity > 0 THEN quantity ELSE 0 END) AS paid_qty'), q.raw('SUM(CASE WHEN quantity > 0 THEN amount_cents ELSE 0 END) AS paid_cents')),
-    q('rentals').where(org).whereIn('job_id', jobIds).groupBy('job_id').select('job_id', q.raw('SUM(weeks * 7 + days + half_days / 2) AS days')),
+    q('rentals').where(org).whereIn('job_id', jobIds).groupBy('job_id')
+      .select('job_id', q.raw('SUM(weeks * 7 + days + half_days / 2) AS days'), q.raw(`SUM(CASE WHEN kind IN (${DIG_EQUIPMENT.map(() => '?').join(',')}) THEN weeks * 7 + days + half_days / 2 ELSE 0 END) AS dig_days`, [...DIG_EQUIPMENT])),
+    q('bid_lines').where({ ...org, kind: 'rental' }).whereIn('bid_id', bidIds).groupBy('bid_id').select('bid_id', q.raw('SUM(amount_cents) AS cents')),
   ]);
   const fig = new Map(figures.map((f) => [f.jobId, f]));
   const boughtBy = new Map(bought.map((b) => [`${b.job_id} ${b.sku}`, b]));
+  // Each job's rows by id, once, rather than a scan of every row per job.
+  const groupBy = <T>(rows: T[], key: (r: T) => string | number) => {
+    const m = new Map<string | number, T[]>();
+    for (const r of rows) { const k = key(r); const list = m.get(k); if (list) list.push(r); else m.set(k, [r]); }
+    return m;
+  };
+  const labourBy = groupBy(labour, (l) => Number(l.bid_id));
+  const snapsBy = groupBy(snaps, (x) => Number(x.bid_id));
+  const linesBy = groupBy(lines, (l) => Number(l.bid_id));
+  const labourCostBy = new Map(labourCost.map((c) => [Number(c.bid_id), toInt(c.cents)]));
+  const rentalCostBy = new Map(rentalLines.map((c) => [Number(c.bid_id), toInt(c.cents)]));
+  const hoursBy = new Map(hours.map((h) => [`${Number(h.job_id)} ${h.task}`, Number(h.hours)]));
+  const rentalsBy = new Map(rentals.map((x) => [Number(x.job_id), x]));
   const unitCosts: UnitCostRow[] = [];
   const jobs = base.map((r): FinishedJob => {
     const jobId = Number(r.id);
     const bidId = Number(r.bid_id);
     const f = fig.get(jobId);
-    const taskRows = labour.filter((l) => Number(l.bid_id) === bidId);
+    const taskRows = labourBy.get(bidId) ?? [];
     const crewHours = taskRows.reduce((a, l) => a + Number(l.crew_hours), 0);
-    const cost = toInt(labourCost.find((c) => Number(c.bid_id) === bidId)?.cents ?? 0);
-    const logged = (task: string) => Number(hours.find((h) => Number(h.job_id) === jobId && h.task === task)?.hours ?? 0);
-    const groupOf = new Map((parse<{ materials: { sku: string; group: string }[] }>(r.takeoff).materials ?? []).map((m) => [m.sku, m.group]));
+    const cost = labourCostBy.get(bidId) ?? 0;
+    const logged = (task: string) => hoursBy.get(`${jobId} ${task}`) ?? 0;
+    const takeoff = parse<{ materials?: { sku: string; group: string }[]; rentals?: { coversHours: number; days: number; halfDaySku: string | null }[] }>(r.takeoff);
+    const groupOf = new Map((takeoff.materials ?? []).map((m) => [m.sku, m.group]));
+    const digRules = takeoff.rentals ?? [];
+    const rented = rentalsBy.get(jobId);
     const materials: FinishedJob['materials'] = {};
-    for (const l of lines.filter((x) => Number(x.bid_id) === bidId)) {
+    for (const l of linesBy.get(bidId) ?? []) {
       const group = (groupOf.get(l.sku) ?? 'hardware') as WasteKey;
       const unit = toInt(l.unit_cost_cents);
       const b = boughtBy.get(`${jobId} ${l.sku}`);
@@ -75,10 +93,14 @@ export async function finishedJobs(companyId: string, q: Q = db()): Promise<{ jo
       actual: f?.actual ?? { material: 0, labour: 0, rental: 0, other: 0 },
       crewSize: Number(r.crew_size), crewHourCostCents: crewHours > 0 ? cost / crewHours : 0,
       holes: Number(r.hole_count), fenceFt: Number(r.fence_ft), gates: Number(r.gate_count),
-      bidRates: Object.fromEntries(snaps.filter((s) => Number(s.bid_id) === bidId).map((s) => [s.kind as RateKind, Number(s.value)])),
+      bidRates: Object.fromEntries((snapsBy.get(bidId) ?? []).map((s) => [s.kind as RateKind, Number(s.value)])),
       labour: Object.fromEntries(taskRows.map((l) => [l.task, { bidManHours: Number(l.man_hours), actualManHours: logged(TIME_TASK_OF[l.task as LabourTask] ?? l.task) }])),
       materials,
-      rentalDays: { bid: Number(r.rental_days), actual: Number(rentals.find((x) => Number(x.job_id) === jobId)?.days ?? 0) },
+      rentalDays: { bid: Number(r.rental_days), actual: Number(rented?.days ?? 0) },
+      digRental: digRules.length ? {
+        bidDigHours: Number(digRules[0].coversHours), rules: digRules.length, halfDays: Boolean(digRules[0].halfDaySku), bidDaysPerRule: Number(digRules[0].days),
+        bidCostCents: rentalCostBy.get(bidId) ?? 0, actualDays: Number(rented?.dig_days ?? 0),
+      } : null,
     };
   });
   return { jobs, unitCosts };

@@ -10,7 +10,9 @@ import type { Rates } from '../../lib/takeoff/rates.ts';
 import { FINISHED_STATUSES } from '../../lib/margins/job.ts';
 import * as repo from '../repos/calibration.ts';
 import { addRateVersions, rateHistory } from '../repos/rates.ts';
+import { addWasteVersions, wasteHistory } from '../repos/waste-versions.ts';
 import { updateStyle } from '../repos/styles.ts';
+import { billingSettings } from '../repos/billing-settings.ts';
 import { audit } from '../repos/audit.ts';
 import { listStyles, ratesOf, type Style } from './styles.ts';
 import { companyToday } from './bids.ts';
@@ -37,11 +39,13 @@ async function calibrate(actor: Actor, styles: Style[], opts: Options, today: st
 
 /** Every style with finished jobs: comparisons, suggestions and their backtests; the rate history. */
 export async function getCalibration(actor: Actor, opts: Options = {}) {
-  const [styles, today] = await Promise.all([listStyles(actor), companyToday(actor.companyId)]);
+  const [styles, today, billing] = await Promise.all([listStyles(actor), companyToday(actor.companyId), billingSettings(actor.companyId)]);
   const r = await calibrate(actor, styles, opts, today);
   const book = new Map((await db()('price_book_items').where('organization_id', actor.companyId).select('sku', 'unit_cost_cents')).map((b) => [String(b.sku), Number(b.unit_cost_cents)]));
   const histories = await Promise.all(r.styles.map(async (s) => [s.styleId, await rateHistory(actor.companyId, s.styleId)] as const));
+  const wastes = await Promise.all(r.styles.map(async (s) => [s.styleId, await wasteHistory(actor.companyId, s.styleId)] as const));
   return {
+    currency: billing.currency,
     today,
     minJobs: MIN_JOBS,
     halfLifeDays: opts.halfLifeDays ?? null,
@@ -51,13 +55,15 @@ export async function getCalibration(actor: Actor, opts: Options = {}) {
     exclusions: r.exclusions,
     applications: await repo.listApplications(actor.companyId),
     rateHistory: Object.fromEntries(histories),
+    wasteHistory: Object.fromEntries(wastes),
   };
 }
 
 /**
  * Applies suggestions the estimator chose: each must still be today's suggestion (else 409,
- * reload) and one the backtest shows improves (else 422). Labour rates get new versions with
- * who, when and why; a waste percent is written into the style's recipe; each is recorded
+ * reload) and one the backtest shows improves (else 422). Labour and rental-day rates get new
+ * versions with who, when and why; a waste percent is written into the style's recipe under
+ * the style's row lock, with a waste version (old, new, who, when, why); each is recorded
  * with its backtest. Bids already saved keep the rates they were priced with.
  */
 export async function applyCalibration(actor: Actor, input: ApplyInput) {
@@ -79,21 +85,30 @@ export async function applyCalibration(actor: Actor, input: ApplyInput) {
   const stale = chosen.filter((c) => Math.abs(c!.seen - c!.item.suggested!) > 1e-9);
   if (stale.length) throw new AppError('CONFLICT', 'The suggestions changed since the page was loaded (new jobs or exclusions). Reload and look again.', { items: stale.map((c) => c!.item.label).join(', ') });
 
-  const labour: Partial<Rates> = {};
+  const rates: Partial<Rates> = {};
   const waste: Partial<Record<WasteKey, number>> = {};
   for (const c of chosen) {
     const v = c!.item.suggestedValues!;
-    if (c!.item.kind === 'labour') Object.assign(labour, v);
-    else Object.assign(waste, v);
+    if (c!.item.kind === 'waste') Object.assign(waste, v);
+    else Object.assign(rates, v);
   }
   await db().transaction(async (trx) => {
+    // The style's row first, locked: a recipe edit or another calibration of this style waits
+    // for this one, and the recipe read next is the one written over (no lost update).
+    const locked = await trx('fence_styles').where({ organization_id: actor.companyId, id: style.id }).forUpdate().first('recipe');
+    if (!locked) throw notFound('That fence style');
     const reason = `Calibrated from ${cal.jobs - cal.excludedJobs} finished jobs: ${input.reason}`;
-    if (Object.keys(labour).length) await addRateVersions(actor.companyId, style.id, labour, reason, actor.userId, trx);
     if (Object.keys(waste).length) {
-      const locked = await trx('fence_styles').where({ organization_id: actor.companyId, id: style.id }).forUpdate().first('recipe');
-      const recipe = recipeSchema.parse({ ...(typeof locked.recipe === 'string' ? JSON.parse(locked.recipe) : locked.recipe ?? style.recipe), wastePct: { ...style.recipe.wastePct, ...waste } });
+      const stored = recipeSchema.safeParse(typeof locked.recipe === 'string' ? JSON.parse(locked.recipe) : locked.recipe);
+      const base = stored.success ? stored.data : style.recipe;
+      // A chosen waste percent changed after the calibration read it: its backtest judged the old value.
+      const moved = chosen.filter((c) => c!.item.kind === 'waste' && c!.item.wasteKey && base.wastePct[c!.item.wasteKey] !== c!.item.currentValues[c!.item.wasteKey]);
+      if (moved.length) throw new AppError('CONFLICT', 'The style\'s waste changed since the page was loaded. Reload and look again.', { items: moved.map((c) => c!.item.label).join(', ') });
+      const recipe = recipeSchema.parse({ ...base, wastePct: { ...base.wastePct, ...waste } });
       await updateStyle(actor.companyId, style.id, { recipe }, trx);
+      await addWasteVersions(actor.companyId, style.id, base.wastePct, waste, reason, actor.userId, trx);
     }
+    if (Object.keys(rates).length) await addRateVersions(actor.companyId, style.id, rates, reason, actor.userId, trx);
     for (const c of chosen) {
       const { item } = c!;
       const bt = item.backtest!;

@@ -91,9 +91,10 @@ export async function jobMarginOf(actor: Actor, jobId: number) {
 export async function dashboardMargins(actor: Actor) {
   const ctx = await context(actor.companyId);
   const quarter = quarterOf(ctx.today);
+  const twelveMonths = { from: yearBefore(ctx.today), to: ctx.today };
   const [thisQuarter, year, open] = await Promise.all([
     margins(actor, { status: ['completed', 'closed'], from: quarter.from, to: quarter.to, style: [], estimator: [] }),
-    margins(actor, { status: ['completed', 'closed'], from: yearBefore(ctx.today), to: ctx.today, style: [], estimator: [] }),
+    margins(actor, { status: ['completed', 'closed'], ...twelveMonths, style: [], estimator: [] }),
     can(actor.role, 'wip:read') ? margins(actor, { status: ['won', 'building'], style: [], estimator: [] }) : Promise.resolve(null),
   ]);
   const styles = marginByStyle(year).styles;
@@ -102,6 +103,8 @@ export async function dashboardMargins(actor: Actor) {
     quarter: { ...quarter, ...summarise(null, quarter.label, thisQuarter) },
     atRisk: open ? wipReport(open, ctx.targetMarginPct).jobs.filter((j) => j.atRisk).sort((a, b) => (a.projectedMarginPct ?? -Infinity) - (b.projectedMarginPct ?? -Infinity)) : null,
     openJobs: open?.length ?? null,
+    /** The range best and worst are judged over: the margins screen with it names the same styles. */
+    twelveMonths,
     ...bestAndWorst(styles),
   };
 }

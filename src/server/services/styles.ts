@@ -8,6 +8,7 @@ import type { z } from 'zod';
 import type { styleInput } from '../../lib/takeoff/recipe.ts';
 import * as styles from '../repos/styles.ts';
 import * as rates from '../repos/rates.ts';
+import { addWasteVersions } from '../repos/waste-versions.ts';
 import { audit } from '../repos/audit.ts';
 
 export interface Style {
@@ -48,16 +49,25 @@ export async function createStyle(actor: Actor, input: z.output<typeof styleInpu
     if (await trx('fence_styles').where({ organization_id: actor.companyId, name: input.name }).first('id')) throw duplicateName(input.name);
     const newId = await styles.insertStyle(actor.companyId, input, trx);
     await rates.addRateVersions(actor.companyId, newId, ratesFor(input.kind), 'Starting rates for a new style', actor.userId, trx);
+    await addWasteVersions(actor.companyId, newId, null, input.recipe.wastePct, 'Starting waste for a new style', actor.userId, trx);
     await audit(trx, actor, 'fence_style', newId, 'create', { name: input.name });
     return newId;
   });
   return getStyle(actor, id);
 }
 
+/** A hand edit of a style; a change of a waste percent is kept as a waste version, as calibration's are. */
 export async function updateStyle(actor: Actor, id: number, input: Partial<z.output<typeof styleInput>>): Promise<Style> {
   await getStyle(actor, id);
   await db().transaction(async (trx) => {
+    // The row lock first, so the waste recorded as "before" is what this write replaces.
+    const locked = await trx('fence_styles').where({ organization_id: actor.companyId, id }).forUpdate().first('recipe');
+    if (!locked) throw notFound('That fence style');
     if (input.name && (await trx('fence_styles').where({ organization_id: actor.companyId, name: input.name }).whereNot('id', id).first('id'))) throw duplicateName(input.name);
+    if (input.recipe) {
+      const before = recipeSchema.safeParse(typeof locked.recipe === 'string' ? JSON.parse(locked.recipe) : locked.recipe);
+      await addWasteVersions(actor.companyId, id, before.success ? before.data.wastePct : null, input.recipe.wastePct, 'Changed by hand in the style\'s recipe', actor.userId, trx);
+    }
     await styles.updateStyle(actor.companyId, id, input, trx);
     await audit(trx, actor, 'fence_style', id, 'update', { fields: Object.keys(input) });
   });

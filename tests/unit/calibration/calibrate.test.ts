@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import * as ss from 'simple-statistics';
-import { calibrateStyle, type FinishedJob } from '../../../src/lib/calibration/calibrate';
+import { calibrateStyle, rentalDaysFor, type FinishedJob } from '../../../src/lib/calibration/calibrate';
 import { unitCostChecks } from '../../../src/lib/calibration/unit-costs';
 import { rng } from '../../../src/lib/random';
 import { ratesFor } from '../../../src/lib/takeoff/defaults';
@@ -150,6 +150,67 @@ describe('calibrating a style from its finished jobs', () => {
   });
 });
 
+/**
+ * fj's job with an auger bid for 12 crew-h of digging at 8 h a rental day (1.5 days: a day and
+ * a half day, $200 a day, so $300 bid) and `days` rented, at $200 a day, in its actual cost.
+ */
+function withAuger(j: FinishedJob, days: number): FinishedJob {
+  return {
+    ...j, bidRates: { ...j.bidRates, rental_day_hours: 8 },
+    estimatedCostCents: j.estimatedCostCents + 30_000, actualCostCents: j.actualCostCents + days * 20_000,
+    estimated: { ...j.estimated, rental: 30_000 }, actual: { ...j.actual, rental: days * 20_000 },
+    rentalDays: { bid: 1.5, actual: days },
+    digRental: { bidDigHours: 12, rules: 1, halfDays: true, bidDaysPerRule: 1.5, bidCostCents: 30_000, actualDays: days },
+  };
+}
+
+describe('the rental-day rate', () => {
+  it('counts rental days the way the takeoff does', () => {
+    // A day of 8 h: 12 h → a day and a half day; 13 h → two days; without half days 12 h → two.
+    expect(rentalDaysFor(12, 8, true)).toBe(1.5);
+    expect(rentalDaysFor(13, 8, true)).toBe(2);
+    expect(rentalDaysFor(12, 8, false)).toBe(2);
+    expect(rentalDaysFor(16, 8, true)).toBe(2);
+    expect(rentalDaysFor(0, 8, true)).toBe(0);
+  });
+
+  it('a hand-worked set: the auger stays out two days for 12 hours of digging', () => {
+    const c = calibrateStyle([1, 2, 3, 4, 5].map((i) => withAuger(fj(i), 2)), style, new Map(), { today });
+    const r = item(c, 'rental:day_hours');
+    // The posts ran as bid, so the digging took the bid's 12 h; 12 h ÷ 2 days = 6 h a day.
+    expect(r.kind).toBe('rental');
+    expect(r.bidMedian).toBe(8);
+    expect(r.actualMedian).toBe(6);
+    expect(r.ratio!.median).toBeCloseTo(0.75, 12);
+    expect(r.current).toBe(8);
+    expect(r.suggested).toBe(6);
+    expect(r.suggestedValues).toEqual({ rental_day_hours: 6 });
+    // Each job: estimated $1,830 + $300 = $2,130, actual $1,830 + $400 = $2,230 → −4.484 %.
+    // At 6 h a day the takeoff's 12 h is exactly 2 days, $400: the re-estimate is exact.
+    expect(r.backtest!.current.mape).toBeCloseTo((10_000 / 223_000) * 100, 6);
+    expect(r.backtest!.current.bias).toBeCloseTo((-10_000 / 223_000) * 100, 6);
+    expect(r.backtest!.suggested).toEqual({ mape: 0, bias: 0 });
+    expect(r.applicable).toBe(true);
+    expect(c.backtest!.suggested.mape).toBe(0);
+  });
+
+  it('counts the digging the job took, not the bid\'s, so it pairs with a calibrated dig rate', () => {
+    // Posts ran 1.5 × their bid: the digging took 18 h; 2.5 days rented → 7.2 h a day
+    // (against the bid's 12 h it would read 4.8).
+    const c = calibrateStyle([1, 2, 3, 4, 5].map((i) => withAuger(fj(i, { posts: 1.5 }), 2.5)), style, new Map(), { today });
+    expect(item(c, 'rental:day_hours').suggested).toBe(7.2);
+  });
+
+  it('leaves out jobs with no dig rental recorded, and has no item without a dig rental bid', () => {
+    const jobs = [...[1, 2, 3].map((i) => withAuger(fj(i), 2)), withAuger(fj(4), 0), withAuger(fj(5), 0)];
+    const r = item(calibrateStyle(jobs, style, new Map(), { today }), 'rental:day_hours');
+    expect(r.n).toBe(3);
+    expect(r.suggested).toBeNull();
+    expect(r.reason).toMatch(/Only 3 finished jobs.*at least 4/);
+    expect(calibrateStyle([1, 2, 3, 4].map((i) => fj(i)), style, new Map(), { today }).items.some((i) => i.key === 'rental:day_hours')).toBe(false);
+  });
+});
+
 describe('unit costs paid against the bids', () => {
   it('takes each job\'s paid unit cost and the median across jobs', () => {
     const rows = [
@@ -164,6 +225,21 @@ describe('unit costs paid against the bids', () => {
     expect(c.bidMedianCents).toBe(649);
     expect(c.ratio.median).toBeCloseTo(670 / 649, 12);
     expect(c.bookCents).toBe(689);
+    // Three jobs are too few for a suggested book price.
+    expect(c.suggestedCents).toBeNull();
+    expect(c.reason).toMatch(/3 finished jobs; at least 4/);
     expect(unitCostChecks(rows, new Map())).toHaveLength(1);
+    expect(unitCostChecks(rows, new Map())[0].reason).toBe('Not in the price book.');
+  });
+
+  it('suggests a book price from four jobs: the book × the median of paid ÷ book (hand-worked)', () => {
+    // Paid per bag 6.70, 6.50, 7.00, 7.20 against a book price of 6.89: the ratios'
+    // median is (6.70 + 7.00) ÷ 2 ÷ 6.89, so the suggestion is $6.85.
+    const rows = [[10, 6_700], [20, 13_000], [5, 3_500], [10, 7_200]].map(([q, c], i) => ({ sku: 'CONC-50', name: 'Concrete', jobId: i + 1, bidUnitCostCents: 649, paidQty: q, paidCents: c }));
+    const [c] = unitCostChecks(rows, new Map([['CONC-50', 689]]));
+    expect(c.bookRatio!.median).toBeCloseTo(685 / 689, 12);
+    expect(c.bookRatio!.n).toBe(4);
+    expect(c.suggestedCents).toBe(685);
+    expect(c.reason).toBeNull();
   });
 });

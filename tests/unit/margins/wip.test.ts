@@ -43,10 +43,51 @@ describe('work in progress', () => {
     expect(w.jobs[0].projectedMarginPct).toBe(31.2);
     expect(w.jobs[0].atRisk).toBe(true);
     expect(w.totals.atRisk).toBe(1);
-    // Cost to date $6,200 of $8,400 → 73.8 %; earned 12,500 × 6,200/8,400 = 9,226.19 (half even).
-    expect(w.jobs[0].percentComplete).toBe(73.8);
-    expect(w.jobs[0].earnedCents).toBe(922_619);
-    expect(w.jobs[0].overUnderCents).toBe(312_500 - 922_619);
+    // Percent complete divides by the same current estimate, $8,600: $6,200 of $8,600 → 72.1 %;
+    // earned 12,500 × 6,200/8,600 = 9,011.627… → $9,011.63 (half even). Against the bid's
+    // $8,400 it would have read 73.8 % and $9,226.19 earned.
+    expect(w.jobs[0].projectedCostCents).toBe(860_000);
+    expect(w.jobs[0].percentComplete).toBe(72.1);
+    expect(w.jobs[0].earnedCents).toBe(901_163);
+    expect(w.jobs[0].overUnderCents).toBe(312_500 - 901_163);
+    expect(w.jobs[0].overEstimate).toBe(true);
+  });
+
+  it('an open job already over its estimate: percent complete by the current estimate of total cost (worked example)', () => {
+    // Cost to cost: percent complete = costs incurred to date ÷ (costs to date + estimated
+    // costs to complete), the estimate revised each period (Kieso, Weygandt & Warfield,
+    // Intermediate Accounting, long-term contracts; AICPA guide for construction contractors;
+    // both from memory). The figures are ours [calc]: contract $20,000; bid cost material
+    // $8,000, labour $6,000, rental $1,000 = $15,000. So far material $9,000 (all bought,
+    // $1,000 over), labour $3,000, rental $500 = $12,500. Still to spend: 0 + 3,000 + 500,
+    // so the current estimate is $16,000 and the job is 12,500 ÷ 16,000 = 78.125 % done.
+    // Earned 20,000 × 0.78125 = $15,625.00; billed $16,000 → $375 billed ahead of the work.
+    // Dividing by the stale $15,000 would say 83.3 %, $16,666.67 earned and $666.67 under-billed.
+    const j = jobMargin(open(3, {
+      contractBaseCents: 2_000_000, estimated: { material: 800_000, labour: 600_000, rental: 100_000, other: 0 },
+      actual: { material: 900_000, labour: 300_000, rental: 50_000, other: 0 }, billedCents: 1_600_000,
+    }));
+    const w = wipReport([j], 30).jobs[0];
+    expect(w.estimatedCostCents).toBe(1_500_000);
+    expect(w.costToDateCents).toBe(1_250_000);
+    expect(w.projectedCostCents).toBe(1_600_000);
+    expect(w.percentComplete).toBe(78.1);
+    expect(w.earnedCents).toBe(1_562_500);
+    expect(w.overUnderCents).toBe(37_500);
+    expect(w.overEstimate).toBe(true);
+    // Projected gross profit 20,000 − 16,000 = $4,000: 20 %, below a 30 % target.
+    expect(w.projectedGrossProfitCents).toBe(400_000);
+    expect(w.projectedMarginPct).toBe(20);
+    expect(w.atRisk).toBe(true);
+  });
+
+  it('a job spent past its estimate in every group reads 100 % by cost, never more', () => {
+    const j = jobMargin(open(4, { contractBaseCents: 1_000_000, estimated: { ...zero, labour: 600_000 }, actual: { ...zero, labour: 700_000 }, billedCents: 900_000 }));
+    const w = wipReport([j], 30).jobs[0];
+    expect(w.projectedCostCents).toBe(700_000);
+    expect(w.percentComplete).toBe(100);
+    expect(w.earnedCents).toBe(1_000_000);
+    expect(w.overUnderCents).toBe(-100_000);
   });
 
   it('is not at risk on target, and is at risk without a contract', () => {
@@ -65,7 +106,9 @@ describe('work in progress', () => {
       for (const r of w.jobs) {
         expect(r.percentComplete).toBeGreaterThanOrEqual(0);
         expect(r.percentComplete).toBeLessThanOrEqual(100);
-        expect(r.projectedCostCents).toBeGreaterThanOrEqual(Math.max(r.estimatedCostCents, r.costToDateCents) - 0);
+        expect(r.projectedCostCents).toBeGreaterThanOrEqual(Math.max(r.estimatedCostCents, r.costToDateCents));
+        // Earned is the contract × cost to date ÷ the current estimate, never the stale one.
+        if (r.projectedCostCents > 0) expect(Math.abs(r.earnedCents - (r.contractCents * r.costToDateCents) / r.projectedCostCents)).toBeLessThanOrEqual(0.5);
       }
       expect(JSON.stringify(w)).not.toMatch(/NaN|Infinity/);
     }));

@@ -25,12 +25,20 @@ describe('percentage of completion, cost-to-cost', () => {
     expect(r.overUnderCents).toBe(-248_000);
   });
 
-  it('caps completion at 100 % and flags a job over its estimate', () => {
+  it('raises an estimate the cost to date has passed to that cost, and flags the job', () => {
+    // A job cannot cost less than it has already spent: the current estimate becomes $3,600.
     const r = wipRow({ contractCents: 500_000, estimatedTotalCostCents: 300_000, costToDateCents: 360_000, billedToDateCents: 500_000 });
+    expect(r.currentEstimatedCostCents).toBe(360_000);
     expect(r.percentComplete).toBe(1);
     expect(r.overEstimate).toBe(true);
     expect(r.earnedCents).toBe(500_000);
     expect(r.projectedGrossProfitCents).toBe(140_000);
+    // Given the revised estimate instead ($4,000), the same job is 90 % done: earned $4,500.
+    const revised = wipRow({ contractCents: 500_000, estimatedTotalCostCents: 400_000, costToDateCents: 360_000, billedToDateCents: 500_000 });
+    expect(revised.percentComplete).toBeCloseTo(0.9, 12);
+    expect(revised.earnedCents).toBe(450_000);
+    expect(revised.overUnderCents).toBe(50_000);
+    expect(revised.overEstimate).toBe(false);
   });
 
   it('rounds earned revenue half to even', () => {
@@ -49,7 +57,10 @@ describe('percentage of completion, cost-to-cost', () => {
         const t = wipTotals(rows);
         expect(t.netOverUnderCents).toBe(t.billedToDateCents - t.earnedCents);
         expect(t.overBilledCents - t.underBilledCents).toBe(t.netOverUnderCents);
-        for (const r of rows) expect(r.earnedCents).toBeLessThanOrEqual(r.contractCents);
+        for (const r of rows) {
+          expect(r.earnedCents).toBeLessThanOrEqual(r.contractCents);
+          expect(r.currentEstimatedCostCents).toBeGreaterThanOrEqual(r.costToDateCents);
+        }
       }),
     );
   });

@@ -3,16 +3,19 @@ import { Bar } from 'react-chartjs-2';
 import { COLOURS, baseOptions, fill } from '../reports/charts';
 import { ChartCard, Scroll } from '../reports/ChartCard';
 import { api } from '../ui/api';
-import { formatDate, formatMoney } from '../../../lib/format';
+import { formatDate, formatMoney, type CurrencyCode } from '../../../lib/format';
 import { COST_GROUP_LABELS } from '../../../lib/margins/job';
 import { RATE_INFO, type RateKind } from '../../../lib/takeoff/rates';
-import type { CalibrationItem, StyleCalibration } from '../../../lib/calibration/calibrate';
+import { WASTE_LABELS, type CalibrationItem, type StyleCalibration } from '../../../lib/calibration/calibrate';
 import type { UnitCostCheck } from '../../../lib/calibration/unit-costs';
 import type { ErrorSummary } from '../../../lib/calibration/backtest';
 import type { Application, Exclusion } from '../../../server/repos/calibration';
 import type { RateVersion } from '../../../server/repos/rates';
+import type { WasteVersion } from '../../../server/repos/waste-versions';
+import type { WasteKey } from '../../../lib/takeoff/recipe';
 
 export interface CalibrationData {
+  currency: CurrencyCode;
   today: string;
   minJobs: number;
   halfLifeDays: number | null;
@@ -22,6 +25,7 @@ export interface CalibrationData {
   exclusions: Exclusion[];
   applications: Application[];
   rateHistory: Record<string, RateVersion[]>;
+  wasteHistory: Record<string, WasteVersion[]>;
 }
 
 const num = (v: number | null | undefined, d = 4) => (v === null || v === undefined ? '—' : Number(v.toFixed(d)).toString());
@@ -29,9 +33,15 @@ const err = (e: ErrorSummary | null | undefined) => (e ? `${e.mape.toFixed(1)} %
 const bias = (e: ErrorSummary | null | undefined) => (e ? `${e.bias > 0 ? '+' : ''}${e.bias.toFixed(1)} %${Math.abs(e.bias) >= 0.05 ? (e.bias < 0 ? ' (low)' : ' (high)') : ''}` : '—');
 const ratio = (x: number | null | undefined) => (x === null || x === undefined ? '—' : `${x.toFixed(2)}×`);
 const gain = (s: StyleCalibration) => (s.backtest ? s.backtest.current.mape - s.backtest.suggested.mape : 0);
-const valueText = (item: CalibrationItem, v: number | null) => (v === null ? '—' : item.kind === 'waste' ? `${v.toFixed(1)} %` : num(v));
+const valueText = (item: CalibrationItem, v: number | null) => (v === null ? '—' : item.kind === 'waste' ? `${v.toFixed(1)} %` : item.kind === 'rental' ? `${v.toFixed(1)} h` : num(v));
 const valuesText = (vals: Record<string, number> | null) =>
-  vals ? Object.entries(vals).map(([k, v]) => (k in RATE_INFO ? `${RATE_INFO[k as RateKind].label} ${num(v)}` : `${v} %`)).join(' · ') : '—';
+  vals ? Object.entries(vals).map(([k, v]) => (k in RATE_INFO ? `${RATE_INFO[k as RateKind].label} ${num(v)}` : `${WASTE_LABELS[k as WasteKey] ?? k} ${v} %`)).join(' · ') : '—';
+const KIND_HEADINGS: Record<CalibrationItem['kind'], string> = { labour: 'Labour, crew-hours', waste: 'Materials bought over the takeoff', rental: 'Rental days of the digging equipment' };
+/** An applied item's words: its label in the style's calibration, else the key read aloud. */
+const itemLabel = (data: CalibrationData, styleId: number, key: string) =>
+  data.styles.find((s) => s.styleId === styleId)?.items.find((i) => i.key === key)?.label
+  ?? (key.startsWith('waste:') ? `${WASTE_LABELS[key.slice(6) as WasteKey] ?? key.slice(6)} waste` : key === 'rental:day_hours' ? 'Hours of digging a rental day covers' : key);
+const ZERO_LINE = { color: (c: { tick?: { value: number } }) => (c.tick?.value === 0 ? COLOURS.steel : 'rgba(31,38,43,0.1)'), lineWidth: (c: { tick?: { value: number } }) => (c.tick?.value === 0 ? 2 : 1) };
 
 /** The estimator's calibration: what finished jobs took against their bids, suggestions, backtests, apply. */
 export default function CalibrationScreen({ initial, mayApply }: { initial: CalibrationData; mayApply: boolean }) {
@@ -46,21 +56,25 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
     if (r.ok) setData(r.data);
   };
 
-  const chart = useMemo(() => ({
+  const chartOf = (pick: (e: ErrorSummary) => number) => ({
     labels: data.styles.map((s) => s.styleName),
     datasets: [
-      { label: "Today's rates (striped)", data: data.styles.map((s) => s.backtest?.current.mape ?? null), backgroundColor: fill(COLOURS.galv, 'stripes'), borderColor: COLOURS.galv, borderWidth: 1 },
-      { label: 'With the suggestions (solid)', data: data.styles.map((s) => s.backtest?.suggested.mape ?? null), backgroundColor: fill(COLOURS.moss, 'solid'), borderColor: COLOURS.moss, borderWidth: 1 },
+      { label: "Today's rates (striped)", data: data.styles.map((s) => (s.backtest ? pick(s.backtest.current) : null)), backgroundColor: fill(COLOURS.galv, 'stripes'), borderColor: COLOURS.galv, borderWidth: 1 },
+      { label: 'With the suggestions (solid)', data: data.styles.map((s) => (s.backtest ? pick(s.backtest.suggested) : null)), backgroundColor: fill(COLOURS.moss, 'solid'), borderColor: COLOURS.moss, borderWidth: 1 },
     ],
-  }), [data.styles]);
+  });
+  const chart = useMemo(() => chartOf((e) => e.mape), [data.styles]);
+  const biasChart = useMemo(() => chartOf((e) => e.bias), [data.styles]);
+  const m = (c: number | null | undefined) => formatMoney(c, data.currency);
 
   return (
     <div className="space-y-4" data-testid="calibration-screen">
       <section className="card text-sm" aria-labelledby="how-title">
         <h2 id="how-title" className="mb-1">How the suggestions are made</h2>
         <p className="max-w-4xl text-galv-700">
-          For each labour task and material group, every finished job with an accepted bid gives one achieved rate: crew-hours per hole, per foot of fence,
-          per gate or per job; for materials, what was bought against the bid's own buy list, so a whole roll or box is not counted as waste.
+          For each labour task and material group, and for the hours of digging a rental day covers, every finished job with an accepted bid gives one
+          achieved rate: crew-hours per hole, per foot of fence, per gate or per job; for materials, what was bought against the bid's own buy list,
+          so a whole roll or box is not counted as waste; for rentals, the digging the job took ÷ the days of digging equipment it rented.
           The suggestion is the <strong>median</strong> of those rates: one job that hit a rock ledge hardly moves it, where it would drag a mean.
           Fewer than {data.minJobs} jobs give no suggestion. The <strong>backtest</strong> judges each job by a rate fitted on the other jobs only
           (leave one out) and reports the mean absolute error of the bids' cost against what the jobs cost, and its bias (negative: bids ran low).
@@ -76,11 +90,22 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
       </section>
 
       <ChartCard id="chart-backtest" wideTable title="Backtest: the bids' cost error by style" note="Mean absolute percentage error of each style's bids against its finished jobs, judged leave one out. Lower is better."
-        chart={<Bar role="img" aria-label="Bar chart of each style's bid cost error with today's rates and with the suggested rates; the numbers are in the table beside it." data={chart} options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Mean absolute error, % of cost' }, beginAtZero: true } } })} />}
+        chart={<Bar role="img" aria-label="Bar chart of each style's bid cost error with today's rates and with the suggested rates; the numbers are in the table beside it." data={chart} options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Error, % of cost' }, beginAtZero: true } } })} />}
         table={
           <table className="table-dense" data-testid="backtest-table">
-            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Error today</th><th className="num">Bias</th><th className="num">With suggestions</th><th className="num">Bias</th></tr></thead>
-            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td className="min-w-40"><button type="button" className="text-left text-timber-700 underline" onClick={() => setShown(s.styleId)}>{s.styleName}</button></td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{err(s.backtest?.current)}</td><td className="num">{bias(s.backtest?.current)}</td><td className="num">{err(s.backtest?.suggested)}</td><td className="num">{bias(s.backtest?.suggested)}</td></tr>)}</tbody>
+            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Error today</th><th className="num">With suggestions</th></tr></thead>
+            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td className="min-w-40"><button type="button" className="text-left text-timber-700 underline" onClick={() => setShown(s.styleId)}>{s.styleName}</button></td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{err(s.backtest?.current)}</td><td className="num">{err(s.backtest?.suggested)}</td></tr>)}</tbody>
+          </table>
+        } />
+
+      <ChartCard id="chart-bias" wideTable title="Backtest: the bids' bias by style"
+        note="Mean signed error of each style's bids against its finished jobs, judged leave one out: below the zero line the bids ran low (the jobs cost more), above it high. Closer to zero is better."
+        chart={<Bar role="img" aria-label="Bar chart of each style's bid cost bias with today's rates and with the suggested rates, around a zero line; the numbers are in the table beside it." data={biasChart}
+          options={baseOptions<'bar'>({ scales: { y: { title: { display: true, text: 'Bias, % of cost' }, grid: ZERO_LINE } } })} />}
+        table={
+          <table className="table-dense" data-testid="bias-table">
+            <thead><tr><th>Style</th><th className="num">Jobs</th><th className="num">Bias today</th><th className="num">With suggestions</th></tr></thead>
+            <tbody>{data.styles.map((s) => <tr key={s.styleId} data-style={s.styleName}><td className="min-w-40">{s.styleName}</td><td className="num">{s.backtest?.n ?? 0}</td><td className="num">{bias(s.backtest?.current)}</td><td className="num">{bias(s.backtest?.suggested)}</td></tr>)}</tbody>
           </table>
         } />
 
@@ -93,7 +118,7 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
         ))}
       </nav>
       {data.styles.filter((s) => s.styleId === shown).map((s) => (
-        <StyleSection key={s.styleId} style={s} data={data} mayApply={mayApply} busy={busy} message={message?.style === s.styleId ? message : null}
+        <StyleSection key={s.styleId} style={s} data={data} money={m} mayApply={mayApply} busy={busy} message={message?.style === s.styleId ? message : null}
           onApply={async (items, reason) => {
             setBusy(true);
             const r = await api<CalibrationData & { applied: { key: string }[] }>('/api/calibration/apply', { body: { styleId: s.styleId, items, reason, halfLifeDays: data.halfLifeDays } });
@@ -114,12 +139,23 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
       {data.withoutJobs.length > 0 && <p className="text-sm text-galv-600">No finished jobs yet for {data.withoutJobs.map((s) => s.styleName).join(', ')}: nothing to calibrate them from.</p>}
 
       <section className="card" aria-labelledby="unit-title">
-        <h2 id="unit-title" className="mb-1">Material unit costs: paid against the bids</h2>
-        <p className="mb-2 text-sm text-galv-600">Receipts already update the price book; this shows whether the finished jobs' bids priced their materials low or high.</p>
+        <h2 id="unit-title" className="mb-1">Material unit costs: paid against the bids and the price book</h2>
+        <p className="mb-2 max-w-4xl text-sm text-galv-600">
+          Each finished job that bought an item gives its paid unit cost (what its receipts paid ÷ the units). Where at least {data.minJobs} jobs bought it,
+          the suggested book price is today's book price × the median of paid ÷ book. Receipts already update the price book as they come in; change a price
+          there (<a href="/pricebook">price book</a>) if the suggestion says the book is off.
+        </p>
         <Scroll label="Material unit costs" className="max-h-96 overflow-auto">
           <table className="table-dense" data-testid="unit-costs">
-            <thead><tr><th>Item</th><th className="num">Jobs</th><th className="num">Bid (median)</th><th className="num">Paid (median)</th><th className="num">Paid ÷ bid</th><th className="num">Price book today</th></tr></thead>
-            <tbody>{data.unitCosts.map((u) => <tr key={u.sku}><td>{u.name} <span className="text-xs text-galv-500">{u.sku}</span></td><td className="num">{u.jobs}</td><td className="num">{formatMoney(u.bidMedianCents)}</td><td className="num">{formatMoney(u.paidMedianCents)}</td><td className="num">{ratio(u.ratio.median)}</td><td className="num">{formatMoney(u.bookCents)}</td></tr>)}</tbody>
+            <thead><tr><th>Item</th><th className="num">Jobs</th><th className="num">Bid (median)</th><th className="num">Paid (median)</th><th className="num">Paid ÷ bid</th><th className="num">Price book today</th><th className="num">Paid ÷ book (middle half)</th><th className="num">Suggested book price</th></tr></thead>
+            <tbody>{data.unitCosts.map((u) => (
+              <tr key={u.sku} data-sku={u.sku}>
+                <td>{u.name} <span className="text-xs text-galv-500">{u.sku}</span></td><td className="num">{u.jobs}</td><td className="num">{m(u.bidMedianCents)}</td><td className="num">{m(u.paidMedianCents)}</td>
+                <td className="num">{ratio(u.ratio.median)}</td><td className="num">{m(u.bookCents)}</td>
+                <td className="num">{u.bookRatio ? `${ratio(u.bookRatio.median)} (${u.bookRatio.q1.toFixed(2)}–${u.bookRatio.q3.toFixed(2)})` : '—'}</td>
+                <td className="num" data-testid={`unit-suggested-${u.sku}`}>{u.suggestedCents !== null ? <strong>{m(u.suggestedCents)}</strong> : <span className="whitespace-normal text-xs text-galv-600">{u.reason}</span>}</td>
+              </tr>
+            ))}</tbody>
           </table>
         </Scroll>
       </section>
@@ -130,7 +166,7 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
           <Scroll label="Calibrations applied">
             <table className="table-dense" data-testid="applications">
               <thead><tr><th>When</th><th>Who</th><th>Style</th><th>What</th><th>From</th><th>To</th><th className="num">Jobs</th><th className="num">Error</th><th>Why</th></tr></thead>
-              <tbody>{data.applications.map((a) => <tr key={a.id}><td className="whitespace-nowrap">{formatDate(a.createdAt)}</td><td>{a.createdByName ?? '—'}</td><td>{a.styleName}</td><td>{a.itemKey}</td><td>{valuesText(a.oldValues)}</td><td>{valuesText(a.newValues)}</td><td className="num">{a.jobs}</td><td className="num whitespace-nowrap">{a.mapeBefore.toFixed(1)} → {a.mapeAfter.toFixed(1)} %</td><td>{a.reason}</td></tr>)}</tbody>
+              <tbody>{data.applications.map((a) => <tr key={a.id}><td className="whitespace-nowrap">{formatDate(a.createdAt)}</td><td>{a.createdByName ?? '—'}</td><td>{a.styleName}</td><td>{itemLabel(data, a.styleId, a.itemKey)}</td><td>{valuesText(a.oldValues)}</td><td>{valuesText(a.newValues)}</td><td className="num">{a.jobs}</td><td className="num whitespace-nowrap">{a.mapeBefore.toFixed(1)} → {a.mapeAfter.toFixed(1)} %</td><td>{a.reason}</td></tr>)}</tbody>
             </table>
           </Scroll>
         )}
@@ -139,9 +175,10 @@ export default function CalibrationScreen({ initial, mayApply }: { initial: Cali
   );
 }
 
-function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExclude, onInclude }: {
+function StyleSection({ style: s, data, money, mayApply, busy, message, onApply, onExclude, onInclude }: {
   style: StyleCalibration;
   data: CalibrationData;
+  money: (cents: number | null | undefined) => string;
   mayApply: boolean;
   busy: boolean;
   message: { text: string; ok: boolean } | null;
@@ -154,7 +191,11 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
   const [open, setOpen] = useState<string | null>(null);
   const applicable = s.items.filter((i) => i.applicable);
   const bt = s.backtest;
-  const history = data.rateHistory[String(s.styleId)] ?? [];
+  // Rate versions and waste versions together, newest first.
+  const history = [
+    ...(data.rateHistory[String(s.styleId)] ?? []).map((h) => ({ key: `r${h.id}`, at: h.createdAt, what: RATE_INFO[h.kind]?.label ?? h.kind, versionNo: h.versionNo, value: num(h.value), who: h.createdByName, reason: h.reason })),
+    ...(data.wasteHistory[String(s.styleId)] ?? []).map((h) => ({ key: `w${h.id}`, at: h.createdAt, what: `${WASTE_LABELS[h.wasteKey] ?? h.wasteKey} waste`, versionNo: h.versionNo, value: `${h.oldPct === null ? '' : `${h.oldPct} → `}${h.newPct} %`, who: h.createdByName, reason: h.reason })),
+  ].sort((a, b) => b.at.localeCompare(a.at) || b.key.localeCompare(a.key));
   const excl = (jobId: number, scope: string) => data.exclusions.find((e) => e.jobId === jobId && (e.scope === scope || e.scope === 'job'));
   return (
     <section id={`style-${s.styleId}`} className="card" aria-labelledby={`style-${s.styleId}-title`} data-testid={`calibration-style-${s.styleId}`} data-style={s.styleName}>
@@ -174,7 +215,7 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
           <tbody>
             {s.items.map((it, i) => (
               <Fragment key={it.key}>
-                {(i === 0 || s.items[i - 1].kind !== it.kind) && <tr><th colSpan={mayApply ? 10 : 9} scope="colgroup" className="bg-timber-50 text-timber-900">{it.kind === 'labour' ? 'Labour, crew-hours' : 'Materials bought over the takeoff'}</th></tr>}
+                {(i === 0 || s.items[i - 1].kind !== it.kind) && <tr><th colSpan={mayApply ? 10 : 9} scope="colgroup" className="bg-timber-50 text-timber-900">{KIND_HEADINGS[it.kind]}</th></tr>}
                 <tr data-item={it.key}>
                   {mayApply && <td>{it.applicable && <input type="checkbox" aria-label={`Apply the suggested ${it.label.toLowerCase()}`} checked={chosen.includes(it.key)} onChange={(e) => setChosen(e.target.checked ? [...chosen, it.key] : chosen.filter((k) => k !== it.key))} />}</td>}
                   <td className="min-w-48"><span className="font-medium">{it.label}</span><span className="block text-xs text-galv-500">{it.unit}{it.kind === 'waste' && it.boughtToTakeoffMedian !== null ? `; bought ÷ takeoff ${ratio(it.boughtToTakeoffMedian)}` : ''}</span></td>
@@ -194,7 +235,7 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
                 </tr>
                 {open === it.key && (
                   <tr><td colSpan={mayApply ? 10 : 9} className="bg-galv-50">
-                    <JobsBehind item={it} mayApply={mayApply} excl={excl} onExclude={onExclude} onInclude={onInclude} />
+                    <JobsBehind item={it} money={money} mayApply={mayApply} excl={excl} onExclude={onExclude} onInclude={onInclude} />
                   </td></tr>
                 )}
               </Fragment>
@@ -203,6 +244,13 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
         </table>
       </Scroll>
       <p className="mt-1 text-xs text-galv-600">Bid, actual and actual ÷ bid are medians over the jobs, with the middle half of the jobs' ratios in brackets. The error is the bids' mean absolute error of cost, judged leave one out.</p>
+      {s.items.some((i) => i.kind === 'rental') && (
+        <p className="mt-1 max-w-4xl text-xs text-galv-600" data-testid="rental-note">
+          Hours of digging a rental day covers: the digging a job took (the bid's digging hours, scaled by how far its dig-and-set hours ran over or under the bid)
+          ÷ the days of auger, skid steer, post driver or excavator it rented. A new bid's rental days are its digging hours ÷ this, rounded up to a half or whole day,
+          and its digging hours come from the dig rate, so apply the dig rate's suggestion first where it has one. Jobs with no digging rental recorded are not counted.
+        </p>
+      )}
       {mayApply && applicable.length > 0 && (
         <form className="mt-3 flex flex-wrap items-end gap-3" onSubmit={(e) => {
           e.preventDefault();
@@ -219,8 +267,8 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
       )}
       {message && <p className={`mt-2 text-sm ${message.ok ? 'text-moss-700' : 'field-error'}`} role={message.ok ? 'status' : 'alert'} data-testid="apply-message">{message.text}</p>}
 
-      <div className="mt-4 grid gap-4 lg:grid-cols-2">
-        <div>
+      <div className="mt-4 space-y-4">
+        <div className="max-w-2xl">
           <h3 className="mb-1 text-sm font-semibold text-galv-800">Actual ÷ estimated cost, by category</h3>
           <table className="table-dense">
             <thead><tr><th>Category</th><th className="num">Jobs</th><th className="num">Median (middle half)</th></tr></thead>
@@ -229,13 +277,13 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
               <tr><td>Rental days</td><td className="num">{s.rentals.n}</td><td className="num">{s.rentals.ratio ? `${ratio(s.rentals.ratio.median)}: ${num(s.rentals.actualMedian, 1)} against ${num(s.rentals.bidMedian, 1)} bid` : '—'}</td></tr>
             </tbody>
           </table>
-          <p className="mt-1 text-xs text-galv-600">Rental days follow the digging hours, so they are calibrated through the dig rate, not on their own.</p>
+          <p className="mt-1 text-xs text-galv-600">Rental days, every kind of equipment, as rented against as bid. The days a bid rents follow its digging hours (the dig rate) and the hours a rental day covers, calibrated above.</p>
         </div>
         <details>
-          <summary className="cursor-pointer text-sm font-semibold text-galv-800">History of {s.styleName}'s rates ({history.length} versions)</summary>
+          <summary className="cursor-pointer text-sm font-semibold text-galv-800">History of {s.styleName}'s rates and waste ({history.length} versions)</summary>
           <table className="table-dense mt-2" data-testid="rate-history">
-            <thead><tr><th>When</th><th>Rate</th><th className="num">Version</th><th className="num">Value</th><th>Who and why</th></tr></thead>
-            <tbody>{history.map((h) => <tr key={h.id}><td className="whitespace-nowrap">{formatDate(h.createdAt)}</td><td>{RATE_INFO[h.kind]?.label ?? h.kind}</td><td className="num">{h.versionNo}</td><td className="num">{num(h.value)}</td><td>{h.createdByName ?? '—'}: {h.reason}</td></tr>)}</tbody>
+            <thead><tr><th>When</th><th>Rate or waste</th><th className="num">Version</th><th className="num">Value</th><th>Who</th><th>Why</th></tr></thead>
+            <tbody>{history.map((h) => <tr key={h.key}><td className="whitespace-nowrap">{formatDate(h.at)}</td><td className="min-w-40">{h.what}</td><td className="num">{h.versionNo}</td><td className="num">{h.value}</td><td className="whitespace-nowrap">{h.who ?? '—'}</td><td>{h.reason}</td></tr>)}</tbody>
           </table>
         </details>
       </div>
@@ -243,8 +291,9 @@ function StyleSection({ style: s, data, mayApply, busy, message, onApply, onExcl
   );
 }
 
-function JobsBehind({ item, mayApply, excl, onExclude, onInclude }: {
+function JobsBehind({ item, money, mayApply, excl, onExclude, onInclude }: {
   item: CalibrationItem;
+  money: (cents: number | null | undefined) => string;
   mayApply: boolean;
   excl: (jobId: number, scope: string) => Exclusion | undefined;
   onExclude: (jobId: number, scope: string, reason: string) => Promise<string | null>;
@@ -266,9 +315,9 @@ function JobsBehind({ item, mayApply, excl, onExclude, onInclude }: {
                   <td className="num">{valueText(item, j.actual)}</td>
                   <td className="num">{ratio(j.ratio)}</td>
                   <td className="num">{valueText(item, j.fittedRate)}</td>
-                  <td className="num">{formatMoney(j.actualCostCents)}</td>
-                  <td className="num">{formatMoney(j.currentCostCents)}</td>
-                  <td className="num">{formatMoney(j.suggestedCostCents)}</td>
+                  <td className="num">{money(j.actualCostCents)}</td>
+                  <td className="num">{money(j.currentCostCents)}</td>
+                  <td className="num">{money(j.suggestedCostCents)}</td>
                   <td>
                     {mayApply && (ex
                       ? <button type="button" className="text-sm text-timber-700 underline" onClick={() => void onInclude(ex.id)}>Count again</button>

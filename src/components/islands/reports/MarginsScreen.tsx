@@ -8,6 +8,7 @@ import { SortableTable } from '../invoices/SortableTable';
 import { formatDate, formatMoney, formatPct, type CurrencyCode } from '../../../lib/format';
 import { COST_GROUPS, COST_GROUP_LABELS, type JobMargin } from '../../../lib/margins/job';
 import type { MonthMargin, StyleMargin } from '../../../lib/margins/by-style';
+import { BEST_WORST_MIN_JOBS, bestAndWorst } from '../../../lib/margins/dashboard';
 import { REPORT_STATUSES, REPORT_STATUS_LABELS, filterParams } from '../../../lib/reports/filters';
 import { JOB_STATUS_LABELS } from '../../../lib/jobs/schema';
 
@@ -35,7 +36,8 @@ export default function MarginsScreen({ initial }: { initial: MarginData }) {
   const m = (c: number | null) => formatMoney(c, data.currency);
   const csv = (path: string) => `${path}?${filterParams(filter, { format: 'csv' })}`;
   const styles = data.styles;
-  const best = [...styles].filter((s) => s.grossProfitPerFtCents !== null && s.styleId !== null).sort((a, b) => b.grossProfitPerFtCents! - a.grossProfitPerFtCents!)[0];
+  // The dashboard's rule: most and least gross profit per foot among styles with at least two measured jobs.
+  const { best, worst } = bestAndWorst(styles);
 
   const marginChart = useMemo(() => ({
     labels: styles.map((s) => s.styleName),
@@ -103,7 +105,8 @@ export default function MarginsScreen({ initial }: { initial: MarginData }) {
         <li className="card p-3"><span className="block text-xs text-galv-500">Gross profit</span><span className="text-xl font-semibold" data-testid="total-profit">{m(t.grossProfitCents)}</span>
           <span className="block text-xs text-galv-600">{formatPct(t.marginPct)} margin · target {data.targetMarginPct} % · bids planned {formatPct(t.estimatedMarginPct)}</span></li>
         <li className="card p-3"><span className="block text-xs text-galv-500">Most gross profit per foot</span><span className="text-xl font-semibold" data-testid="best-style">{best ? best.styleName : '—'}</span>
-          <span className="block text-xs text-galv-600">{best ? `${m(best.grossProfitPerFtCents)} per ft over ${best.linearFt.toLocaleString('en-US')} ft` : 'No measured jobs'}</span></li>
+          <span className="block text-xs text-galv-600">{best ? `${m(best.grossProfitPerFtCents)} per ft over ${best.linearFt.toLocaleString('en-US')} ft` : `No style with ${BEST_WORST_MIN_JOBS} measured jobs`}</span>
+          {worst && <span className="block text-xs text-galv-600">Least: <span data-testid="worst-style">{worst.styleName}</span>, {m(worst.grossProfitPerFtCents)} per ft</span>}</li>
       </ul>
 
       <section className="card" aria-labelledby="by-style-title">

@@ -29,12 +29,18 @@ export default function WipScreen({ initial }: { initial: WipData }) {
     col.accessor('code', { header: 'Job', cell: (c) => <><a className="font-semibold" href={`/jobs/${c.row.original.jobId}`}>{c.getValue()}</a><span className="block text-xs text-galv-500">{c.row.original.styleName ?? ''}</span></> }),
     col.accessor('status', { header: 'Status', cell: (c) => JOB_STATUS_LABELS[c.getValue() as JobStatus] ?? c.getValue() }),
     col.accessor('contractCents', { header: 'Contract', cell: (c) => right(m(c.getValue())) }),
-    col.accessor('estimatedCostCents', { header: 'Estimated cost', cell: (c) => right(m(c.getValue())) }),
+    col.accessor('projectedCostCents', {
+      header: 'Estimated total cost', cell: (c) => (
+        <span className="block text-right tabular-nums">
+          {m(c.getValue())}{c.row.original.overEstimate && <span className="block whitespace-nowrap text-xs text-galv-600">bid {m(c.row.original.estimatedCostCents)}</span>}
+        </span>
+      ),
+    }),
     col.accessor('costToDateCents', { header: 'Cost to date', cell: (c) => right(m(c.getValue())) }),
     col.accessor('percentComplete', {
       header: 'Complete', cell: (c) => (
         <span className="block min-w-24 text-right tabular-nums">
-          {formatPct(c.getValue())}{c.row.original.overEstimate && <span className="block text-xs text-rust-700">cost past the estimate</span>}
+          {formatPct(c.getValue())}{c.row.original.overEstimate && <span className="block whitespace-nowrap text-xs text-rust-700">over the bid's cost</span>}
           <progress className="mt-1 block h-1.5 w-full overflow-hidden rounded [&::-webkit-progress-bar]:bg-galv-100 [&::-webkit-progress-value]:bg-timber-600 [&::-moz-progress-bar]:bg-timber-600" value={c.getValue()} max={100} aria-hidden="true" />
         </span>
       ),
@@ -70,9 +76,14 @@ export default function WipScreen({ initial }: { initial: WipData }) {
         <li className="card p-3"><span className="block text-xs text-galv-500">Net</span><span className="text-lg font-semibold" data-testid="wip-net">{t.netOverUnderCents === 0 ? 'even' : `${m(Math.abs(t.netOverUnderCents))} ${t.netOverUnderCents > 0 ? 'over' : 'under'}`}</span>
           <span className="block text-xs text-galv-600">{t.atRisk} job{t.atRisk === 1 ? '' : 's'} heading below the {data.targetMarginPct} % target</span></li>
       </ul>
+      <p className="text-xs text-galv-600" data-testid="wip-method">
+        Complete = cost to date ÷ the estimated total cost. That estimate is the bid's cost with approved change orders, except that a cost group
+        (material, labour, rental, other) already spent past its estimate counts at what it has spent and no underrun is counted before the job is
+        done; so a job over its bid is not shown further along, or as having earned more, than it is.
+      </p>
       <Scroll label="Open jobs" className="overflow-x-auto rounded-lg border border-galv-200 bg-white" testId="wip-table">
         <SortableTable table={table} loading={loading} empty="No open jobs match these filters."
-          footer={<tfoot><tr className="font-semibold"><td colSpan={2} className="px-3 py-2">Total</td><td className="px-3 py-2 text-right">{m(t.contractCents)}</td><td className="px-3 py-2 text-right">{m(t.estimatedCostCents)}</td><td className="px-3 py-2 text-right">{m(t.costToDateCents)}</td><td></td><td className="px-3 py-2 text-right">{m(t.earnedCents)}</td><td className="px-3 py-2 text-right">{m(t.billedToDateCents)}</td><td className="px-3 py-2 text-right whitespace-nowrap">{t.netOverUnderCents === 0 ? 'even' : `${m(Math.abs(t.netOverUnderCents))} ${t.netOverUnderCents > 0 ? 'over' : 'under'}`}</td><td></td></tr></tfoot>} />
+          footer={<tfoot><tr className="font-semibold"><td colSpan={2} className="px-3 py-2">Total</td><td className="px-3 py-2 text-right">{m(t.contractCents)}</td><td className="px-3 py-2 text-right">{m(t.projectedCostCents)}</td><td className="px-3 py-2 text-right">{m(t.costToDateCents)}</td><td></td><td className="px-3 py-2 text-right">{m(t.earnedCents)}</td><td className="px-3 py-2 text-right">{m(t.billedToDateCents)}</td><td className="px-3 py-2 text-right whitespace-nowrap">{t.netOverUnderCents === 0 ? 'even' : `${m(Math.abs(t.netOverUnderCents))} ${t.netOverUnderCents > 0 ? 'over' : 'under'}`}</td><td></td></tr></tfoot>} />
       </Scroll>
     </div>
   );
