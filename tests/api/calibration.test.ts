@@ -255,9 +255,13 @@ async function whileStyleLocked<T>(style: number, edit: (recipe: any) => any, re
   let pending: Promise<T> | undefined;
   try {
     const row = await trx('fence_styles').where({ id: style }).forUpdate().first('recipe');
+    let settled: unknown;
     pending = request();
+    void pending.then((r) => { settled = r; }, () => undefined);
     const deadline = Date.now() + 30_000;
     for (;;) {
+      // Answered without waiting for the row: say what it answered instead of timing out.
+      if (settled !== undefined) throw new Error(`the request answered before it waited for the style lock: ${JSON.stringify((settled as { status?: number; body?: unknown }).body ?? settled).slice(0, 500)}`);
       const [waits] = await testDb().raw("SELECT COUNT(*) AS n FROM information_schema.innodb_trx WHERE trx_state = 'LOCK WAIT' AND trx_query LIKE '%fence_styles%for update%'");
       if (Number(waits[0].n) > 0) break;
       if (Date.now() > deadline) throw new Error('the request never waited for the style lock');

@@ -9,6 +9,7 @@ import { ensureSupplier } from '../repos/suppliers.ts';
 import { getSettings } from '../repos/settings.ts';
 import { insertTimeEntries } from '../repos/time-entries.ts';
 import { audit } from '../repos/audit.ts';
+import { toInt } from '../db.ts';
 import type { Actor } from '../http.ts';
 import { sha256 } from './import-preview.ts';
 import { applyPriceFeedback, type PriceSighting } from './price-feedback.ts';
@@ -83,8 +84,13 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
 
   // Lines the preview already found imported count as duplicates along with any found now.
   let added = 0, duplicates = before.byState.duplicate ?? 0, addedCents = 0, matched = 0, priceBookUpdates = 0;
+  if (imp.kind === 'receipts') {
+    const r = await commitReceiptLines(trx, actor, importId);
+    added = r.added; duplicates += r.duplicates; addedCents = r.addedCents; matched = r.matched; priceBookUpdates = r.priceBookUpdates;
+  }
   let lastId = 0;
   for (;;) {
+    if (imp.kind === 'receipts') break;
     const rows = await trx('import_lines')
       .where({ organization_id: companyId, import_id: importId, state: 'ok' })
       .andWhere('id', '>', lastId)
@@ -108,61 +114,29 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
     duplicates += dup.length;
     if (!fresh.length) continue;
     const ids = fresh.map((r) => Number(r.id));
-    await trx('import_lines')
-      .where('organization_id', companyId)
-      .whereIn('id', ids)
-      .update({
-        state: 'committed',
-        dedupe_key: trx.raw('line_key'),
-        allocation: imp.kind === 'receipts' ? trx.raw("IF(matched_job_id IS NULL, 'unmatched', 'job')") : null,
-      });
+    await trx('import_lines').where('organization_id', companyId).whereIn('id', ids).update({ state: 'committed', dedupe_key: trx.raw('line_key') });
     added += fresh.length;
     matched += fresh.filter((r) => r.matched_job_id !== null).length;
-    if (imp.kind === 'receipts') {
-      const costRows = fresh.map((r) => ({
-        organization_id: companyId,
-        source: 'receipt',
-        import_line_id: r.id,
-        job_id: r.matched_job_id,
-        overhead: false,
-        category: r.category,
-        cost_date: r.line_date,
-        supplier_id: r.supplier_id,
-        description: r.description,
-        sku: r.sku,
-        quantity: r.quantity,
-        unit: r.unit,
-        amount_cents: r.total_cents,
-        price_book_item_id: r.price_book_item_id,
-        created_by: actor.userId || null,
-      }));
-      // By job, so the totals rows the triggers raise are taken in one order.
-      costRows.sort((a, b) => Number(a.job_id ?? 0) - Number(b.job_id ?? 0) || String(a.category).localeCompare(String(b.category)));
-      for (let i = 0; i < costRows.length; i += 500) await trx('cost_lines').insert(costRows.slice(i, i + 500));
-      addedCents += fresh.reduce((a, r) => a + Number(r.total_cents), 0);
-      priceBookUpdates += await applyPriceFeedback(trx, actor, fresh.flatMap((r) => sighting(r, importId)));
-    } else {
-      const wages = new Map((await trx('workers').where('organization_id', companyId).whereIn('id', [...new Set(fresh.map((r) => Number(r.worker_id)))]).select('id', 'wage_cents')).map((w) => [Number(w.id), Number(w.wage_cents)]));
-      const entries = fresh.map((r) => {
-        const wageCents = wages.get(Number(r.worker_id)) ?? 0;
-        const hours = Number(r.hours);
-        return {
-          jobId: Number(r.matched_job_id),
-          workerId: Number(r.worker_id),
-          date: r.line_date as string,
-          hours,
-          task: r.task,
-          notes: r.memo,
-          wageCents,
-          burdenPct,
-          costCents: labourCostCents({ hours, wageCents, burdenPct }),
-          enteredBy: actor.userId || null,
-          importLineId: Number(r.id),
-        };
-      });
-      await insertTimeEntries(companyId, entries, trx);
-      addedCents += entries.reduce((a, e) => a + e.costCents, 0);
-    }
+    const wages = new Map((await trx('workers').where('organization_id', companyId).whereIn('id', [...new Set(fresh.map((r) => Number(r.worker_id)))]).select('id', 'wage_cents')).map((w) => [Number(w.id), Number(w.wage_cents)]));
+    const entries = fresh.map((r) => {
+      const wageCents = wages.get(Number(r.worker_id)) ?? 0;
+      const hours = Number(r.hours);
+      return {
+        jobId: Number(r.matched_job_id),
+        workerId: Number(r.worker_id),
+        date: r.line_date as string,
+        hours,
+        task: r.task,
+        notes: r.memo,
+        wageCents,
+        burdenPct,
+        costCents: labourCostCents({ hours, wageCents, burdenPct }),
+        enteredBy: actor.userId || null,
+        importLineId: Number(r.id),
+      };
+    });
+    await insertTimeEntries(companyId, entries, trx);
+    addedCents += entries.reduce((a, e) => a + e.costCents, 0);
   }
 
   const headers = imp.headers ?? [];
@@ -190,6 +164,53 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
   await imports.updateImport(companyId, importId, { status: 'committed', supplier_id: supplierId, committed_by: actor.userId, committed_at: new Date(), commit_summary: summary }, trx);
   await audit(trx, actor, 'import', importId, 'commit', { added, duplicates, addedCents });
   return summary;
+}
+
+/**
+ * Receipt lines, committed inside the database: the lines already imported (by this import's
+ * keys) are marked duplicates, the rest become cost lines with one INSERT ... SELECT (ordered
+ * by job, so the totals rows the triggers raise are taken in one order) and are marked
+ * committed, their keys now taken. Only the matched material lines priced from the price
+ * book come back to the app, for price feedback.
+ */
+async function commitReceiptLines(trx: Knex.Transaction, actor: Actor, importId: number) {
+  const companyId = actor.companyId;
+  const [dupResult] = (await trx.raw(
+    `UPDATE import_lines l JOIN import_lines p ON p.organization_id = l.organization_id AND p.dedupe_key = l.line_key
+     SET l.state = 'duplicate', l.reason = CONCAT('already imported: import #', p.import_id, ', row ', p.\`row_number\`)
+     WHERE l.organization_id = ? AND l.import_id = ? AND l.state = 'ok'`,
+    [companyId, importId],
+  )) as unknown as [{ affectedRows: number }];
+  const [[sums]] = (await trx.raw(
+    `SELECT COUNT(*) AS n, COALESCE(SUM(total_cents), 0) AS cents, COALESCE(SUM(matched_job_id IS NOT NULL), 0) AS matched
+       FROM import_lines WHERE organization_id = ? AND import_id = ? AND state = 'ok'`,
+    [companyId, importId],
+  )) as unknown as [[{ n: number; cents: number | string; matched: number | string }]];
+  await trx.raw(
+    `INSERT INTO cost_lines (organization_id, source, import_line_id, job_id, overhead, category, cost_date, supplier_id,
+                             description, sku, quantity, unit, amount_cents, price_book_item_id, created_by)
+     SELECT organization_id, 'receipt', id, matched_job_id, FALSE, category, line_date, supplier_id,
+            description, sku, quantity, unit, total_cents, price_book_item_id, ?
+       FROM import_lines WHERE organization_id = ? AND import_id = ? AND state = 'ok'
+      ORDER BY matched_job_id, category, id`,
+    [actor.userId || null, companyId, importId],
+  );
+  await trx.raw(
+    `UPDATE import_lines SET state = 'committed', dedupe_key = line_key, allocation = IF(matched_job_id IS NULL, 'unmatched', 'job')
+      WHERE organization_id = ? AND import_id = ? AND state = 'ok'`,
+    [companyId, importId],
+  );
+  const priced = await trx('import_lines')
+    .where({ organization_id: companyId, import_id: importId, state: 'committed', category: 'material' })
+    .whereNotNull('matched_job_id').whereNotNull('price_book_item_id').whereNotNull('unit_price_cents').andWhere('quantity', '>', 0)
+    .select('id', 'matched_job_id', 'category', 'price_book_item_id', 'unit_price_cents', 'quantity', 'supplier_id', 'line_date');
+  return {
+    added: Number(sums.n),
+    duplicates: Number(dupResult.affectedRows ?? 0),
+    addedCents: toInt(sums.cents),
+    matched: Number(sums.matched),
+    priceBookUpdates: await applyPriceFeedback(trx, actor, priced.flatMap((r) => sighting(r, importId))),
+  };
 }
 
 function sighting(r: Record<string, unknown>, importId: number): PriceSighting[] {
