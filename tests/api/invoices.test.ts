@@ -185,6 +185,17 @@ describe('issued invoices', () => {
     expect(next.numberText).toBe('INV-0009');
   });
 
+  it('reads "Issued, not sent" until the invoice is e-mailed, on the invoice and the job', async () => {
+    const { job } = await billableJob(co);
+    const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', basisPct: 10 })).id);
+    const pill = async (path: string) => /data-testid="invoice-status"[^>]*>([^<]*)</.exec((await co.owner.get(path, { accept: 'text/html' })).text)?.[1];
+    expect(await pill(`/invoices/${inv.id}`)).toBe('Issued, not sent');
+    expect(await pill(`/jobs/${job.id}`)).toBe('Issued, not sent');
+    expect((await co.owner.post(`/api/invoices/${inv.id}/send`)).status).toBe(200);
+    expect(await pill(`/invoices/${inv.id}`)).toBe('Sent, unpaid');
+    expect(await pill(`/jobs/${job.id}`)).toBe('Sent, unpaid');
+  });
+
   it('gives a PDF to staff and to the signed link, and nothing to a forged link', async () => {
     const { job } = await billableJob(co);
     const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', basisPct: 10 })).id);

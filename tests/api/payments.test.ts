@@ -1,8 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeCompany, type TestCompany } from '../setup/factory';
+import { makeCompany, makeCustomer, makeJob, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
 import { mailTo, waitForMail } from '../setup/mail';
 import { billableJob, draft, getInvoice, issue, send, waitFor } from '../setup/invoices';
+import { parseCsv } from '../../src/lib/csv/tokenizer';
 
 let co: TestCompany;
 beforeAll(async () => {
@@ -94,6 +95,56 @@ describe('manual payments', () => {
       [inv.id, inv.id],
     );
     expect(Number(row.collected)).toBe(inv.totalCents - 30_000);
+  });
+});
+
+describe('receivables export', () => {
+  it('totals each aging bucket and each customer under the rows, and neutralises formula-looking names', async () => {
+    const rc = await makeCompany();
+    const ago = (n: number) => new Date(Date.now() - n * 86_400_000).toISOString().slice(0, 10);
+    const evilName = '=HYPERLINK("http://evil.example","Pay here")';
+    const a = await makeCustomer(rc.owner, evilName);
+    const b = await makeCustomer(rc.owner, 'Birch Row Builders');
+    /** An issued deposit for the customer, due some days ago (negative: not yet due), part paid or not. */
+    const open = async (customerId: number, requestedCents: number, dueDaysAgo: number, paidCents = 0) => {
+      const job = await makeJob(rc.owner, customerId, { status: 'won' });
+      await testDb()('jobs').where({ id: job.id, organization_id: rc.id }).update({ contract_cents: 1_000_000 });
+      await testDb()('job_estimates').insert({ organization_id: rc.id, job_id: job.id, category: 'labour', amount_cents: 700_000, source: 'bid' });
+      const inv = await issue(rc.owner, (await draft(rc.owner, { jobId: job.id, kind: 'deposit', requestedCents })).id);
+      if (paidCents) expect((await rc.owner.post(`/api/invoices/${inv.id}/payments`, { amountCents: paidCents, method: 'check', receivedOn: inv.today })).status).toBe(201);
+      await testDb()('invoices').where({ id: inv.id, organization_id: rc.id }).update({ issued_on: ago(dueDaysAgo + 15), due_on: ago(dueDaysAgo) });
+      return inv.totalCents - paidCents;
+    };
+    // Customer A: one not yet due, one 45 days past due; customer B: 100 days, and 10 days part paid.
+    const a1 = await open(a.id, 100_000, -5);
+    const a2 = await open(a.id, 104_500, 45);
+    const b1 = await open(b.id, 110_000, 100);
+    const b2 = await open(b.id, 101_000, 10, 40_000);
+
+    const res = await rc.bookkeeper.get('/api/receivables?format=csv');
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toContain('text/csv');
+    const rows = parseCsv(res.text).map((r) => r.cells);
+    const [head, ...body] = rows;
+    const col = (name: string) => head.indexOf(name);
+    const invoiceRows = body.filter((r) => /^INV-/.test(r[0]));
+    expect(invoiceRows).toHaveLength(4);
+    const cents = (v: string) => Math.round(Number(v) * 100);
+    const total = (first: string, label: string, at: number) => body.find((r) => r[0] === first && r[at] === label)?.[col('Balance')];
+    // Each bucket's total row is the sum of the invoice rows in that bucket, and what was billed.
+    const expected: Record<string, number> = { Current: a1, '1–30 days': b2, '31–60 days': a2, '61–90 days': 0, 'Over 90 days': b1 };
+    for (const [label, want] of Object.entries(expected)) {
+      const fromRows = invoiceRows.filter((r) => r[col('Aging')] === label).reduce((s, r) => s + cents(r[col('Balance')]), 0);
+      expect(fromRows, label).toBe(want);
+      expect(cents(total('Total', label, col('Aging'))!), label).toBe(want);
+    }
+    expect(cents(total('Total', 'All', col('Aging'))!)).toBe(a1 + a2 + b1 + b2);
+    // Per customer, and the formula-looking name is text, never a formula.
+    expect(cents(total('Customer total', `'${evilName}`, col('Customer'))!)).toBe(a1 + a2);
+    expect(cents(total('Customer total', 'Birch Row Builders', col('Customer'))!)).toBe(b1 + b2);
+    expect(invoiceRows.filter((r) => r[col('Customer')] === `'${evilName}`)).toHaveLength(2);
+    expect(rows.flat().some((c) => /^[=+@\t\r]/.test(c) || /^-[^0-9]/.test(c))).toBe(false);
+    expect(res.text).not.toMatch(/(^|,)=HYPERLINK/m);
   });
 });
 

@@ -365,3 +365,30 @@ describe("the owner's dashboard tiles", () => {
     expect(tile(margins.text, 'worst-style')).toBe(ranked[1].name);
   });
 });
+
+describe('CSV safety', () => {
+  it('writes a job title and customer name that look like formulas as text in the report CSVs', async () => {
+    // A finished job (in the jobs report) and an open one (in work in progress).
+    const done = jobs.find((j) => j.spec.status === 'completed')!;
+    const open = jobs.find((j) => j.spec.status === 'building')!;
+    const title = '=HYPERLINK("http://evil.example","Open me")';
+    const customer = '@SUM(1+1)';
+    for (const j of [done, open]) {
+      // Status and commercial are sent as they are: the job patch fills defaults for missing ones.
+      const now = (await co.owner.get(`/api/jobs/${j.jobId}`)).body;
+      expect((await co.owner.patch(`/api/jobs/${j.jobId}`, { title, status: now.status, commercial: now.commercial })).status).toBe(200);
+    }
+    const customerId = (await co.owner.get(`/api/jobs/${done.jobId}`)).body.customerId as number;
+    expect((await co.owner.patch(`/api/customers/${customerId}`, { name: customer })).status).toBe(200);
+    for (const path of ['/api/reports/jobs?format=csv', '/api/reports/wip?format=csv']) {
+      const r = await co.owner.get(path);
+      expect(r.status, path).toBe(200);
+      const cells = parseCsv(r.text).flatMap((row) => row.cells);
+      expect(cells, path).toContain(`'${title}`);
+      // No cell starts as a spreadsheet formula would; negative numbers are numbers we wrote.
+      expect(cells.filter((c) => /^[=+@\t\r]/.test(c) || /^-(?![0-9])/.test(c)), path).toEqual([]);
+      expect(r.text, path).not.toMatch(/(^|,)"?=HYPERLINK/m);
+    }
+    expect(parseCsv((await co.owner.get('/api/reports/jobs?format=csv')).text).flatMap((row) => row.cells)).toContain(`'${customer}`);
+  });
+});

@@ -22,6 +22,14 @@ export const INVOICE_STATUS_LABELS: Record<InvoiceStatus | 'overdue', string> = 
   overdue: 'Overdue',
 };
 
+/**
+ * The state as staff read it: an invoice issued (numbered) but never e-mailed says so, so
+ * the owner does not take it for one the customer has.
+ */
+export function invoiceStateLabel(status: InvoiceStatus | 'overdue', sent: boolean): string {
+  return status === 'issued' && !sent ? 'Issued, not sent' : INVOICE_STATUS_LABELS[status];
+}
+
 export const LINE_CATEGORIES = ['material', 'labour', 'other'] as const;
 export type LineCategory = (typeof LINE_CATEGORIES)[number];
 export const LINE_CATEGORY_LABELS: Record<LineCategory, string> = { material: 'Materials', labour: 'Labour', other: 'Other' };

@@ -1,5 +1,5 @@
 import type { Actor } from '../http.ts';
-import { age, agingSummary, overdueTotal, AGING_LABELS, type AgingBucket } from '../../lib/aging/index.ts';
+import { age, agingSummary, overdueTotal, AGING_BUCKETS, AGING_LABELS, type AgingBucket } from '../../lib/aging/index.ts';
 import { neutraliseCsvCell } from '../../lib/text.ts';
 import { centsToInput } from '../../lib/billing/money.ts';
 import { openInvoices } from '../repos/invoices.ts';
@@ -17,7 +17,10 @@ export async function receivables(actor: Actor, filter: { bucket?: AgingBucket[]
   return { today, currency: s.currency, items, ...summary, overdue: overdueTotal(items) };
 }
 
-/** The same rows as CSV (amounts in dollars with two decimals; cells that could run as formulas are neutralised). */
+/**
+ * The same rows as CSV, then the totals per aging bucket and per customer and the grand total
+ * (amounts in dollars with two decimals; cells that could run as formulas are neutralised).
+ */
 export async function receivablesCsv(actor: Actor, filter: { bucket?: AgingBucket[]; customer?: number }) {
   const r = await receivables(actor, filter);
   const head = ['Invoice', 'Customer', 'Job', 'Issued', 'Due', 'Days outstanding', 'Days past due', 'Aging', 'Total', 'Paid', 'Balance'];
@@ -29,6 +32,9 @@ export async function receivablesCsv(actor: Actor, filter: { bucket?: AgingBucke
   for (const i of r.items) {
     lines.push([i.numberText, i.customerName, `${i.jobCode} ${i.jobTitle}`, i.issuedOn, i.dueOn, String(i.daysOutstanding), String(Math.max(0, i.daysPastDue)), AGING_LABELS[i.bucket], centsToInput(i.totalCents), centsToInput(i.paidCents), centsToInput(i.balanceCents)].map(esc).join(','));
   }
-  lines.push(['Total', '', '', '', '', '', '', '', '', '', centsToInput(r.totals.total)].join(','));
+  // The screen's totals follow the rows: one per aging bucket, one per customer, then the whole.
+  for (const b of AGING_BUCKETS) lines.push(['Total', '', '', '', '', '', '', AGING_LABELS[b], '', '', centsToInput(r.totals[b])].map(esc).join(','));
+  for (const c of r.customers) lines.push(['Customer total', c.customerName, '', '', '', '', '', '', '', '', centsToInput(c.total)].map(esc).join(','));
+  lines.push(['Total', '', '', '', '', '', '', 'All', '', '', centsToInput(r.totals.total)].map(esc).join(','));
   return { csv: `${lines.join('\r\n')}\r\n`, filename: `receivables-${r.today}.csv` };
 }

@@ -1,4 +1,4 @@
-import { INVOICE_STATUS_LABELS, type InvoiceStatus } from '../../../lib/billing/invoice';
+import { invoiceStateLabel, type InvoiceStatus } from '../../../lib/billing/invoice';
 
 /** The state in words; the colour repeats it. */
 const TONE: Record<InvoiceStatus | 'overdue', string> = {
@@ -10,6 +10,7 @@ const TONE: Record<InvoiceStatus | 'overdue', string> = {
   overdue: 'bg-rust-100 text-rust-700',
 };
 
-export function InvoiceStatusPill({ status }: { status: InvoiceStatus | 'overdue' }) {
-  return <span className={`pill whitespace-nowrap ${TONE[status]}`} data-testid="invoice-status">{INVOICE_STATUS_LABELS[status]}</span>;
+/** `sent`: the invoice was e-mailed at least once (its sent_at is set). */
+export function InvoiceStatusPill({ status, sent }: { status: InvoiceStatus | 'overdue'; sent: boolean }) {
+  return <span className={`pill whitespace-nowrap ${TONE[status]}`} data-testid="invoice-status">{invoiceStateLabel(status, sent)}</span>;
 }

@@ -11,6 +11,7 @@ export interface InvoiceRowView {
   numberText: string | null;
   kind: InvoiceKind;
   displayStatus: InvoiceStatus | 'overdue';
+  sentAt: string | null;
   jobId: number;
   jobCode: string;
   jobTitle: string;
@@ -53,7 +54,7 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
     col.accessor('jobCode', { header: 'Job', cell: (c) => <a href={`/jobs/${c.row.original.jobId}`} className="whitespace-nowrap">{c.getValue()}</a> }),
     col.accessor('customerName', { header: 'Customer' }),
     col.accessor('kind', { header: 'Kind', cell: (c) => INVOICE_KIND_LABELS[c.getValue()] }),
-    col.accessor('displayStatus', { header: 'State', cell: (c) => <InvoiceStatusPill status={c.getValue()} /> }),
+    col.accessor('displayStatus', { header: 'State', cell: (c) => <InvoiceStatusPill status={c.getValue()} sent={Boolean(c.row.original.sentAt)} /> }),
     col.accessor('issuedOn', { header: 'Issued', cell: (c) => <span className="whitespace-nowrap">{formatDate(c.getValue())}</span> }),
     col.accessor('dueOn', { header: 'Due', cell: (c) => <span className="whitespace-nowrap">{formatDate(c.getValue())}</span> }),
     col.accessor('totalCents', { header: 'Total', cell: (c) => <span className="block text-right">{m(c.getValue())}</span> }),
@@ -79,14 +80,14 @@ export default function InvoicesTable({ initial, currency }: { initial: InvoiceR
         {FILTERS.map((s) => (
           <label key={s} className={`cursor-pointer rounded-full border px-3 py-1 text-xs ${status.includes(s) ? 'border-timber-600 bg-timber-100 font-semibold text-timber-800' : 'border-galv-300 bg-white text-galv-700'}`}>
             <input type="checkbox" className="sr-only" checked={status.includes(s)} onChange={() => toggle(s)} />
-            {status.includes(s) ? '✓ ' : ''}{INVOICE_STATUS_LABELS[s]}
+            {status.includes(s) ? '✓ ' : ''}{s === 'issued' ? 'Issued, unpaid' : INVOICE_STATUS_LABELS[s]}
           </label>
         ))}
       </fieldset>
       <ul className={`space-y-2 sm:hidden ${loading ? 'opacity-60' : ''}`} aria-label="Invoices">
         {table.getRowModel().rows.map(({ original: r }) => (
           <li key={r.id} className="card p-3">
-            <div className="flex items-center justify-between gap-2"><a href={`/invoices/${r.id}`} className="font-semibold">{r.numberText ?? 'Draft'}</a><InvoiceStatusPill status={r.displayStatus} /></div>
+            <div className="flex items-center justify-between gap-2"><a href={`/invoices/${r.id}`} className="font-semibold">{r.numberText ?? 'Draft'}</a><InvoiceStatusPill status={r.displayStatus} sent={Boolean(r.sentAt)} /></div>
             <p className="text-sm">{r.customerName} · {r.jobCode}</p>
             <p className="text-xs text-galv-600">Due {formatDate(r.dueOn)} · balance {m(r.balanceCents)}</p>
           </li>
