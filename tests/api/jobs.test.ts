@@ -140,3 +140,20 @@ describe('the jobs table endpoint', () => {
     expect((await c.owner.get('/api/jobs?sort=password')).status).toBe(400);
   });
 });
+
+describe('partial updates', () => {
+  it('change only the fields sent: a renamed job keeps its status and kind, a worker given a new wage stays inactive', async () => {
+    const job = await makeJob(co.owner, customerId, { status: 'completed', commercial: true });
+    const r = await co.owner.patch(`/api/jobs/${job.id}`, { title: 'Back yard, renamed' });
+    expect(r.status).toBe(200);
+    const after = (await co.owner.get(`/api/jobs/${job.id}`)).body;
+    expect(after).toMatchObject({ title: 'Back yard, renamed', status: 'completed', commercial: true });
+
+    const worker = (await co.owner.post('/api/workers', { name: 'Pell Ardent', wageCents: 2400 })).body;
+    expect((await co.owner.patch(`/api/workers/${worker.id}`, { active: false })).status).toBe(200);
+    expect((await co.owner.patch(`/api/workers/${worker.id}`, { wageCents: 2600 })).status).toBe(200);
+    const list = (await co.owner.get('/api/workers')).body;
+    const items = Array.isArray(list) ? list : list.items;
+    expect(items.find((w: { id: number }) => w.id === worker.id)).toMatchObject({ active: false });
+  });
+});

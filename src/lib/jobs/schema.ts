@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { patchOf } from '../patch.ts';
 
 /** The life of a job, in the trade's words; the order is the usual order. */
 export const JOB_STATUSES = ['lead', 'measured', 'bid_sent', 'won', 'lost', 'building', 'completed', 'closed'] as const;
@@ -72,7 +73,7 @@ export const jobInput = z.strictObject({
   notes: optionalText(8000),
 });
 export type JobInput = z.output<typeof jobInput>;
-export const jobPatch = jobInput.partial();
+export const jobPatch = patchOf(jobInput);
 
 export const JOB_SORTS = ['code', 'title', 'customer', 'style', 'status', 'leadDate', 'updatedAt', 'contract'] as const;
 

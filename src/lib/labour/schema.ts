@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { patchOf } from '../patch.ts';
 import { TIME_TASKS, type TimeTask } from './tasks.ts';
 import { centsField, dateField, hoursField, idField, idList, optionalDate, optionalText, page, pageSize } from '../costs/fields.ts';
 import { MAX_ENTRY_HOURS } from '../csv/normalise.ts';
@@ -14,7 +15,7 @@ export const workerInput = z.strictObject({
   notes: optionalText(2000),
 });
 export type WorkerInput = z.output<typeof workerInput>;
-export const workerPatch = workerInput.partial();
+export const workerPatch = patchOf(workerInput);
 
 export interface Worker {
   id: number;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { patchOf } from '../patch.ts';
 import { COST_CATEGORIES, type CostCategory } from '../costs/categories.ts';
 import { isIsoDate } from '../checklist/business-days.ts';
 import { neutraliseCsvCell } from '../text.ts';
@@ -28,7 +29,7 @@ export const priceItemInput = z.strictObject({
   notes: optionalText(2000),
 });
 export type PriceItemInput = z.output<typeof priceItemInput>;
-export const priceItemPatch = priceItemInput.partial();
+export const priceItemPatch = patchOf(priceItemInput);
 
 export const PRICEBOOK_SORTS = ['sku', 'name', 'category', 'unit', 'unitCost', 'supplier', 'lastSeen'] as const;
 export const priceBookQuery = z.strictObject({

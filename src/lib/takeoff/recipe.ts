@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { patchOf } from '../patch.ts';
 
 /**
  * A fence style's recipe: what a bay, a post, a hole and a gate are made of. Lengths carry
@@ -182,4 +183,4 @@ export const styleInput = z.strictObject({
   active: z.boolean().default(true),
   recipe: recipeSchema,
 });
-export const stylePatch = styleInput.partial();
+export const stylePatch = patchOf(styleInput);
