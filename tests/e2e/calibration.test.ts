@@ -70,8 +70,14 @@ describe('the estimator calibrates the wood privacy rates', () => {
     // A new bid for a lead, through the real bid endpoint, is priced with the new rates.
     const styles = await (await page.request.get(`${base()}/api/styles`)).json();
     const woodId = styles.items.find((s: { name: string }) => s.name === 'Wood privacy 6 ft').id;
-    const leads = await (await page.request.get(`${base()}/api/jobs?status=lead`)).json();
-    const jobId = leads.items[0].id;
+    // A lead of its own: the demo's one lead may have been won by another browser test.
+    const customers = await (await page.request.get(`${base()}/api/customers`)).json();
+    const created = await page.request.post(`${base()}/api/jobs`, {
+      data: { title: 'Next bid after calibration', customerId: customers.items[0].id, fenceStyleId: woodId, status: 'lead' },
+      headers: { origin: base() },
+    });
+    expect(created.status()).toBe(201);
+    const jobId = (await created.json()).id;
     const res = await page.request.post(`${base()}/api/jobs/${jobId}/bids`, {
       data: { styleId: woodId, runs: [{ lengthFt: 64, heightIn: 72, label: 'Back' }], gates: [{ runIndex: 0, widthFt: 4 }], target: { mode: 'margin', pct: 32 } },
       headers: { origin: base() },
