@@ -13,6 +13,7 @@ const MAX_AGE_MS = 60_000;
 
 interface Entry { version: number; at: number; value: unknown }
 const entries = new Map<string, Entry>();
+const inFlight = new Map<string, Promise<unknown>>();
 
 export async function dataVersion(companyId: string): Promise<number> {
   const row = await db()('company_data_versions').where('organization_id', companyId).first('version');
@@ -37,12 +38,22 @@ export async function cachedReport<T>(companyId: string, key: string, compute: (
   const id = `${companyId}\u0000${key}`;
   const hit = entries.get(id);
   if (!opts.fresh && hit && hit.version === version && Date.now() - hit.at < MAX_AGE_MS) return hit.value as T;
-  const value = await compute();
-  entries.delete(id);
-  entries.set(id, { version, at: Date.now(), value });
-  // Oldest first: Map keeps insertion order.
-  while (entries.size > MAX_ENTRIES) entries.delete(entries.keys().next().value as string);
-  return value;
+  // Many people opening the same report at once compute it once.
+  const flightId = `${id}\u0000${version}`;
+  const flying = opts.fresh ? undefined : inFlight.get(flightId);
+  if (flying) return flying as Promise<T>;
+  const promise = compute();
+  if (!opts.fresh) inFlight.set(flightId, promise);
+  try {
+    const value = await promise;
+    entries.delete(id);
+    entries.set(id, { version, at: Date.now(), value });
+    // Oldest first: Map keeps insertion order.
+    while (entries.size > MAX_ENTRIES) entries.delete(entries.keys().next().value as string);
+    return value;
+  } finally {
+    if (inFlight.get(flightId) === promise) inFlight.delete(flightId);
+  }
 }
 
 /** A stable key for a filter object. */

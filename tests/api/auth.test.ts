@@ -179,3 +179,43 @@ describe('invitations and members', () => {
     expect((await c.post('/api/companies/switch', { organizationId: stranger.id })).status).toBe(404);
   });
 });
+
+describe('reading the session cookie', () => {
+  const sessionCookie = (c: Client) => [...c.cookies.keys()].find((k) => k.endsWith('session_token'))!;
+  const tokenOf = (c: Client) => decodeURIComponent(c.cookies.get(sessionCookie(c))!).split('.')[0];
+
+  it('refuses a session token whose signature was changed, made up, or left off', async () => {
+    const co = await makeCompany();
+    const c = new Client();
+    expect((await c.signIn(co.emails.estimator, PASSWORD)).status).toBe(200);
+    expect((await c.get('/api/jobs')).status).toBe(200);
+    const name = sessionCookie(c);
+    const [token, sig] = decodeURIComponent(c.cookies.get(name)!).split('.');
+    const flipped = `${sig[0] === 'A' ? 'B' : 'A'}${sig.slice(1)}`;
+    c.cookies.set(name, encodeURIComponent(`${token}.${flipped}`));
+    expect((await c.get('/api/jobs')).status).toBe(401);
+    c.cookies.set(name, encodeURIComponent(`${token}.${'x'.repeat(43)}=`));
+    expect((await c.get('/api/jobs')).status).toBe(401);
+    c.cookies.set(name, encodeURIComponent(token));
+    expect((await c.get('/api/jobs')).status).toBe(401);
+  });
+
+  it('refuses an expired session and removes it; slides one that is due for a refresh', async () => {
+    const co = await makeCompany();
+    const expired = new Client();
+    expect((await expired.signIn(co.emails.bookkeeper, PASSWORD)).status).toBe(200);
+    await testDb()('session').where('token', tokenOf(expired)).update({ expiresAt: new Date(Date.now() - 60_000) });
+    expect((await expired.get('/api/jobs')).status).toBe(401);
+    expect(await testDb()('session').where('token', tokenOf(expired)).first()).toBeUndefined();
+
+    const sliding = new Client();
+    expect((await sliding.signIn(co.emails.bookkeeper, PASSWORD)).status).toBe(200);
+    // Two days left of a seven-day session: past the one-day update age, so it is renewed.
+    const soon = new Date(Date.now() + 2 * 86_400_000);
+    await testDb()('session').where('token', tokenOf(sliding)).update({ expiresAt: soon });
+    expect((await sliding.get('/api/jobs')).status).toBe(200);
+    const row = await testDb()('session').where('token', tokenOf(sliding)).first();
+    expect(new Date(row.expiresAt).getTime()).toBeGreaterThan(Date.now() + 6 * 86_400_000);
+    expect((await sliding.get('/api/jobs')).status).toBe(200);
+  });
+});

@@ -131,9 +131,41 @@ export async function* eachCost(companyId: string, f: CostListQuery, q: Q = db()
 }
 
 /** A job's actual cost by category, from every source. */
-export async function actualByCategory(companyId: string, jobId: number, q: Q = db()): Promise<{ category: CostCategory; amountCents: number }[]> {
-  const rows = (await q.from(allCosts(q, companyId).as('u')).where('u.job_id', jobId).groupBy('u.category').select('u.category', q.raw('SUM(u.amount_cents) AS cents'))) as { category: CostCategory; cents: string }[];
-  return rows.map((r) => ({ category: r.category, amountCents: toInt(r.cents) }));
+export interface JobCostingFigures {
+  estimates: { category: CostCategory; amountCents: number; source: string }[];
+  actuals: { category: CostCategory; amountCents: number }[];
+  approvedChangeOrdersCents: number;
+  hoursByTask: { task: string; hours: number }[];
+  unpricedRentals: number;
+  costFlagPct: number | null;
+}
+
+/**
+ * What one job's costing needs besides the job itself, in one statement: the estimate by
+ * category and source, the actual cost by category (job_cost_totals, the sums of cost lines,
+ * crew hours and priced rentals), approved change orders, crew hours by task, rentals still
+ * without rates, and the company's cost flag percent.
+ */
+export async function jobCostingFigures(companyId: string, jobId: number, q: Q = db()): Promise<JobCostingFigures> {
+  const [rows] = (await q.raw(
+    `SELECT 'estimate' AS kind, category AS k, source AS k2, SUM(amount_cents) AS v FROM job_estimates WHERE organization_id = ? AND job_id = ? GROUP BY category, source
+     UNION ALL SELECT 'actual', category, NULL, amount_cents FROM job_cost_totals WHERE organization_id = ? AND job_id = ?
+     UNION ALL SELECT 'co', NULL, NULL, COALESCE(SUM(price_cents), 0) FROM change_orders WHERE organization_id = ? AND job_id = ? AND status = 'approved'
+     UNION ALL SELECT 'hours', task, NULL, SUM(hours) FROM time_entries WHERE organization_id = ? AND job_id = ? GROUP BY task
+     UNION ALL SELECT 'unpriced', NULL, NULL, COUNT(*) FROM rentals WHERE organization_id = ? AND job_id = ? AND cost_cents IS NULL
+     UNION ALL SELECT 'flag', NULL, NULL, cost_flag_pct FROM company_settings WHERE organization_id = ?`,
+    [companyId, jobId, companyId, jobId, companyId, jobId, companyId, jobId, companyId, jobId, companyId],
+  )) as unknown as [{ kind: string; k: string | null; k2: string | null; v: string | number | null }[]];
+  const out: JobCostingFigures = { estimates: [], actuals: [], approvedChangeOrdersCents: 0, hoursByTask: [], unpricedRentals: 0, costFlagPct: null };
+  for (const r of rows) {
+    if (r.kind === 'estimate') out.estimates.push({ category: r.k as CostCategory, amountCents: toInt(r.v), source: String(r.k2) });
+    else if (r.kind === 'actual') out.actuals.push({ category: r.k as CostCategory, amountCents: toInt(r.v) });
+    else if (r.kind === 'co') out.approvedChangeOrdersCents = toInt(r.v);
+    else if (r.kind === 'hours') out.hoursByTask.push({ task: String(r.k), hours: Number(r.v) });
+    else if (r.kind === 'unpriced') out.unpricedRentals = Number(r.v);
+    else if (r.kind === 'flag') out.costFlagPct = r.v === null ? null : Number(r.v);
+  }
+  return out;
 }
 
 export async function insertCostLines(rows: Record<string, unknown>[], q: Q): Promise<void> {

@@ -107,8 +107,8 @@ const LIST_FIELDS = ['j.*', 'c.name as customer_name', 's.name as style_name', '
 
 /**
  * One page of jobs. The filter, the count and the order run on jobs alone where they can
- * (a join only for a name searched or sorted on), and the page's 50 ids are looked up with
- * their names afterwards: on ten years of jobs the count and the page stay index reads.
+ * (a join only for a name searched or sorted on), and the page's ids are looked up with their
+ * names afterwards: on ten years of jobs the count and the page stay index reads.
  */
 export async function listJobs(companyId: string, query: JobListQuery, scope: JobScope = {}, q: Q = db()): Promise<{ items: JobRow[]; total: number }> {
   const base = q('jobs as j').where('j.organization_id', companyId);
@@ -127,9 +127,6 @@ export async function listJobs(companyId: string, query: JobListQuery, scope: Jo
       w.whereILike('j.code', like).orWhereILike('j.title', like).orWhereILike('c.name', like).orWhereILike('j.site_line1', like).orWhereILike('j.site_city', like),
     );
   }
-  const [{ n }] = await base.clone().count({ n: '*' });
-  const total = Number(n);
-  if (total === 0) return { items: [], total };
   const page = base.clone();
   if (query.sort === 'customer' && !query.q) joinCustomer(page);
   if (query.sort === 'style') {
@@ -137,12 +134,14 @@ export async function listJobs(companyId: string, query: JobListQuery, scope: Jo
       this.on('s.id', 'j.fence_style_id').andOn('s.organization_id', 'j.organization_id');
     });
   }
-  const ids = (await page
-    .select('j.id')
-    .orderBy(SORT_COLUMNS[query.sort], query.dir)
-    .orderBy('j.id', query.dir)
-    .limit(query.pageSize)
-    .offset((query.page - 1) * query.pageSize)).map((r: { id: number }) => Number(r.id));
+  const [{ n }] = await base.clone().count({ n: '*' });
+  const total = Number(n);
+  if (total === 0) return { items: [], total };
+  page.select('j.id').orderBy(SORT_COLUMNS[query.sort], query.dir);
+  // A job code is unique in its company, so it needs no tie-break, and the page is read in
+  // the order of the (company, code) index; other columns are broken by id.
+  if (query.sort !== 'code') page.orderBy('j.id', query.dir);
+  const ids = (await page.limit(query.pageSize).offset((query.page - 1) * query.pageSize)).map((r: { id: number }) => Number(r.id));
   if (!ids.length) return { items: [], total };
   const rows = await selectJobs(q, companyId, scope).whereIn('j.id', ids).select(LIST_FIELDS);
   const byId = new Map(rows.map((r: Record<string, unknown>) => [Number(r.id), r]));
