@@ -119,9 +119,10 @@ async function main(): Promise<void> {
     STRIPE_SECRET_KEY: process.env.STRIPE_SECRET_KEY ?? 'sk_test_tallypost_local',
     STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
     STRIPE_API_BASE: `http://127.0.0.1:${stripePort}`,
-    // One app process per core for npm start and the benchmarks (node:cluster, see serve.mjs);
-    // the suite runs one, and its fault tests start a second on their own.
-    WEB_CONCURRENCY: process.env.WEB_CONCURRENCY ?? (testMode ? '1' : String(Math.min(4, os.availableParallelism()))),
+    // App processes behind the port (node:cluster, see serve.mjs). One here: MariaDB shares
+    // this machine's cores, and a second process measured slower on two cores. A server of
+    // its own, with the database elsewhere, sets one per core.
+    WEB_CONCURRENCY: process.env.WEB_CONCURRENCY ?? '1',
     // The suite signs in often from one browser; the rate-limit test uses its own address.
     ...(scratchMode ? { SIGN_IN_RATE_MAX: process.env.SIGN_IN_RATE_MAX ?? '60' } : {}),
   };

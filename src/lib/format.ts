@@ -13,15 +13,22 @@ export function money(cents: number, currency: CurrencyCode = 'USD'): Dinero<num
 /** Display only: $1,234.56. */
 export function formatMoney(cents: number | null | undefined, currency: CurrencyCode = 'USD'): string {
   if (cents === null || cents === undefined) return '—';
-  return toDecimal(money(cents, currency), ({ value, currency: c }) =>
-    new Intl.NumberFormat('en-US', { style: 'currency', currency: c.code }).format(Number(value)),
-  );
+  return toDecimal(money(cents, currency), ({ value, currency: c }) => currencyFormat(c.code).format(Number(value)));
 }
+
+// Building an Intl formatter costs far more than using one: one per currency, made once.
+const currencyFormats = new Map<string, Intl.NumberFormat>();
+function currencyFormat(code: string): Intl.NumberFormat {
+  let f = currencyFormats.get(code);
+  if (!f) currencyFormats.set(code, (f = new Intl.NumberFormat('en-US', { style: 'currency', currency: code })));
+  return f;
+}
+const dateFormat = new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' });
 
 export function formatDate(iso: string | null | undefined): string {
   if (!iso) return '—';
   const d = new Date(iso.length === 10 ? `${iso}T00:00:00Z` : iso);
-  return new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' }).format(d);
+  return dateFormat.format(d);
 }
 
 export function formatPct(value: number | null | undefined, digits = 1): string {

@@ -16,11 +16,18 @@ export function rulesFrom(s: CompanySettings): { site: SiteRules; pricing: Prici
   };
 }
 
-/** Today's date where the company is (the clock is read by the caller). */
+const dayFormats = new Map<string, Intl.DateTimeFormat | null>();
+
+/** Today's date where the company is (the clock is read by the caller); UTC for a zone Intl does not know. */
 export function todayIn(timeZone: string, now: Date): string {
-  try {
-    return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(now);
-  } catch {
-    return now.toISOString().slice(0, 10);
+  let f = dayFormats.get(timeZone);
+  if (f === undefined) {
+    try {
+      f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    } catch {
+      f = null;
+    }
+    dayFormats.set(timeZone, f);
   }
+  return f ? f.format(now) : now.toISOString().slice(0, 10);
 }

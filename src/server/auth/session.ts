@@ -65,6 +65,13 @@ function signedToken(cookieHeader: string | null, keys: CookieKeys): string | nu
   return null;
 }
 
+// Written out once rather than built per request: it runs on every request.
+const SESSION_SQL = `SELECT s.id AS session_id, s.expiresAt AS expires_at, s.createdAt AS created_at, s.activeOrganizationId AS active_org,
+       u.id AS user_id, u.name AS user_name, u.email, o.id AS org_id, o.name AS org_name, o.slug, m.role
+  FROM session s JOIN \`user\` u ON u.id = s.userId
+  LEFT JOIN member m ON m.userId = u.id LEFT JOIN organization o ON o.id = m.organizationId
+ WHERE s.token = ? ORDER BY o.name`;
+
 interface SessionRow {
   session_id: string; expires_at: Date; created_at: Date; active_org: string | null;
   user_id: string; user_name: string; email: string;
@@ -84,14 +91,7 @@ export async function identify(headers: Headers): Promise<RequestIdentity> {
   const keys = await sessionCookieKeys();
   const token = signedToken(headers.get('cookie'), keys);
   if (token === null || token === false) return nobody;
-  const rows = (await db()('session as s')
-    .join('user as u', 'u.id', 's.userId')
-    .leftJoin('member as m', 'm.userId', 'u.id')
-    .leftJoin('organization as o', 'o.id', 'm.organizationId')
-    .where('s.token', token)
-    .orderBy('o.name')
-    .select('s.id as session_id', 's.expiresAt as expires_at', 's.createdAt as created_at', 's.activeOrganizationId as active_org',
-      'u.id as user_id', 'u.name as user_name', 'u.email', 'o.id as org_id', 'o.name as org_name', 'o.slug', 'm.role')) as SessionRow[];
+  const [rows] = (await db().raw(SESSION_SQL, [token])) as unknown as [SessionRow[]];
   const first = rows[0];
   const now = Date.now();
   const expires = first ? new Date(first.expires_at).getTime() : 0;

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { todayIn as todayInZone } from '../../lib/bids/rules.ts';
 import { db, toInt } from '../db.ts';
 import { parseSchedule } from '../../lib/reminders/index.ts';
 import type { BillingSettingsInput } from '../../lib/billing/schema.ts';
@@ -65,9 +66,5 @@ export async function companiesWithReminders(q: Q = db()): Promise<{ companyId: 
 
 /** Today's date where the company works ('YYYY-MM-DD'). */
 export function todayIn(timezone: string, now = new Date()): string {
-  try {
-    return new Intl.DateTimeFormat('en-CA', { timeZone: timezone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(now);
-  } catch {
-    return now.toISOString().slice(0, 10);
-  }
+  return todayInZone(timezone, now);
 }
