@@ -122,7 +122,7 @@ export async function* readChunks(companyId: string, importId: number, q: Q = db
 
 export async function insertLines(rows: Record<string, unknown>[], q: Q): Promise<void> {
   // Batches keep each statement well under MariaDB's placeholder and packet limits.
-  for (let i = 0; i < rows.length; i += 500) await q('import_lines').insert(rows.slice(i, i + 500));
+  for (let i = 0; i < rows.length; i += 1000) await q('import_lines').insert(rows.slice(i, i + 1000));
 }
 
 export async function deleteLines(companyId: string, importId: number, q: Q): Promise<void> {

@@ -73,8 +73,13 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
   const pending = (imp.summary.pendingSupplier as string | null) ?? null;
   if (!supplierId && pending) supplierId = (await ensureSupplier(companyId, pending, trx)).id;
   if (imp.kind === 'receipts') {
-    if (supplierId) await trx('import_lines').where({ organization_id: companyId, import_id: importId }).whereNull('supplier_name').update({ supplier_id: supplierId });
-    const named = await trx('import_lines').where({ organization_id: companyId, import_id: importId, state: 'ok' }).whereNotNull('supplier_name').distinct('supplier_name');
+    // The preview already gave lines the supplier chosen at upload; one named at upload and
+    // created just now is written onto them here.
+    if (supplierId && supplierId !== imp.supplierId) await trx('import_lines').where({ organization_id: companyId, import_id: importId }).whereNull('supplier_name').update({ supplier_id: supplierId });
+    // Suppliers named line by line, when the file has a supplier column.
+    const named = imp.mapping?.columns?.supplier
+      ? await trx('import_lines').where({ organization_id: companyId, import_id: importId, state: 'ok' }).whereNotNull('supplier_name').distinct('supplier_name')
+      : [];
     for (const { supplier_name: name } of named) {
       const s = await ensureSupplier(companyId, name, trx);
       await trx('import_lines').where({ organization_id: companyId, import_id: importId, supplier_name: name }).update({ supplier_id: s.id });
@@ -168,9 +173,8 @@ async function commitOnce(trx: Knex.Transaction, actor: Actor, importId: number,
 
 /**
  * Receipt lines, committed inside the database: the lines already imported (by this import's
- * keys) are marked duplicates, the rest become cost lines with one INSERT ... SELECT (ordered
- * by job, so the totals rows the triggers raise are taken in one order) and are marked
- * committed, their keys now taken. Only the matched material lines priced from the price
+ * keys) are marked duplicates, the rest become cost lines with one INSERT ... SELECT and are
+ * marked committed, their keys now taken. Only the matched material lines priced from the price
  * book come back to the app, for price feedback.
  */
 async function commitReceiptLines(trx: Knex.Transaction, actor: Actor, importId: number) {
@@ -191,8 +195,7 @@ async function commitReceiptLines(trx: Knex.Transaction, actor: Actor, importId:
                              description, sku, quantity, unit, amount_cents, price_book_item_id, created_by)
      SELECT organization_id, 'receipt', id, matched_job_id, FALSE, category, line_date, supplier_id,
             description, sku, quantity, unit, total_cents, price_book_item_id, ?
-       FROM import_lines WHERE organization_id = ? AND import_id = ? AND state = 'ok'
-      ORDER BY matched_job_id, category, id`,
+       FROM import_lines WHERE organization_id = ? AND import_id = ? AND state = 'ok'`,
     [actor.userId || null, companyId, importId],
   );
   await trx.raw(

@@ -13,7 +13,7 @@ import type { Actor } from '../http.ts';
 
 const PREVIEW_ROWS = 10;
 const SAMPLE_ROWS = 50;
-const BATCH = 500;
+const BATCH = 1000;
 
 export const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 /** A short digest for in-memory maps over 100,000 rows (the content itself may be long). */
