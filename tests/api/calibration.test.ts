@@ -262,9 +262,16 @@ async function whileStyleLocked<T>(style: number, edit: (recipe: any) => any, re
     for (;;) {
       // Answered without waiting for the row: say what it answered instead of timing out.
       if (settled !== undefined) throw new Error(`the request answered before it waited for the style lock: ${JSON.stringify((settled as { status?: number; body?: unknown }).body ?? settled).slice(0, 500)}`);
-      const [waits] = await testDb().raw("SELECT COUNT(*) AS n FROM information_schema.innodb_trx WHERE trx_state = 'LOCK WAIT' AND trx_query LIKE '%fence_styles%for update%'");
+      // The request's locking read, running on another connection. MariaDB may block it on the
+      // row while still planning it (state "Statistics", where a unique lookup reads its row),
+      // before InnoDB lists its transaction as waiting, so the process list is what to watch.
+      const [waits] = await testDb().raw("SELECT COUNT(*) AS n FROM information_schema.processlist WHERE id <> CONNECTION_ID() AND command = 'Query' AND info LIKE '%fence_styles%for update%'");
       if (Number(waits[0].n) > 0) break;
-      if (Date.now() > deadline) throw new Error('the request never waited for the style lock');
+      if (Date.now() > deadline) {
+        const [trxs] = await testDb().raw('SELECT trx_state, trx_started, trx_wait_started, LEFT(trx_query, 200) AS q FROM information_schema.innodb_trx');
+        const [procs] = await testDb().raw("SELECT id, command, time, state, LEFT(info, 160) AS q FROM information_schema.processlist WHERE command <> 'Sleep'");
+        throw new Error(`the request never waited for the style lock; transactions: ${JSON.stringify(trxs)}; processes: ${JSON.stringify(procs)}`);
+      }
       await new Promise((res) => setTimeout(res, 50));
     }
     const recipe = typeof row.recipe === 'string' ? JSON.parse(row.recipe) : row.recipe;

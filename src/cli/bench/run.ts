@@ -129,6 +129,9 @@ async function mixedLoad(k: Knex, cookie: string): Promise<{ paths: string[]; re
   }
   const ok = await fetch(`${stack.appUrl}${MARGIN_PATH}`, { headers: { cookie } });
   const usable = ok.status === 200 ? paths : paths.filter((p) => p !== MARGIN_PATH);
+  // Ten seconds of the same load first, unmeasured: the JIT and MariaDB's buffer pool warm up
+  // as they would on a server that has been running.
+  await load({ url: stack.appUrl, paths: usable, connections: 50, durationS: quick ? 3 : 10, cookie });
   const result = await load({ url: stack.appUrl, paths: usable, connections: 50, durationS: quick ? 10 : 60, cookie });
   return { paths: [...new Set(usable.map((p) => p.replace(/\d+/g, 'N')))], result };
 }
@@ -142,10 +145,24 @@ async function marginBenchmark(k: Knex, cookie: string): Promise<Record<string, 
   const q = jobFiguresQuery(k, LARGE.orgId, { status: ['completed', 'closed'] });
   const sql = q.toSQL().toNative();
   const n = quick ? 3 : 5;
-  const apiS = await medianOf(n, async () => (await fetch(`${stack.appUrl}${MARGIN_PATH}`, { headers: { cookie } })).arrayBuffer());
+  // Computed (the report cache told to recompute), against the same statement run directly.
+  const apiS = await medianOf(n, async () => (await fetch(`${stack.appUrl}${MARGIN_PATH}`, { headers: { cookie, 'cache-control': 'no-cache' } })).arrayBuffer());
   const sqlS = await medianOf(n, () => k.raw(sql.sql, sql.bindings as never[]));
+  // Served from the report cache, as every read after the first is while nothing changes.
+  const cachedS = await medianOf(n, async () => (await fetch(`${stack.appUrl}${MARGIN_PATH}`, { headers: { cookie } })).arrayBuffer());
+  // What job_cost_totals saves: the same per-job cost sums taken from all the cost lines.
+  const rawSumsS = await medianOf(n, () => k.raw(
+    `SELECT u.job_id, u.category, SUM(u.cents) FROM (
+       SELECT job_id, category, amount_cents AS cents FROM cost_lines WHERE organization_id = ? AND job_id IS NOT NULL
+       UNION ALL SELECT job_id, 'labour', cost_cents FROM time_entries WHERE organization_id = ?
+       UNION ALL SELECT job_id, 'rental', cost_cents FROM rentals WHERE organization_id = ? AND cost_cents IS NOT NULL) u
+     GROUP BY u.job_id, u.category`, [LARGE.orgId, LARGE.orgId, LARGE.orgId]));
+  const totalsS = await medianOf(n, () => k.raw('SELECT job_id, category, amount_cents FROM job_cost_totals WHERE organization_id = ?', [LARGE.orgId]));
   const [explain] = await k.raw(`EXPLAIN ${sql.sql}`, sql.bindings as never[]);
-  return { available: true, runs: n, apiS: round(apiS, 3), sqlS: round(sqlS, 3), ratio: round(apiS / sqlS), target: 1.3, sql: sql.sql, explain };
+  return {
+    available: true, runs: n, apiS: round(apiS, 3), sqlS: round(sqlS, 3), ratio: round(apiS / sqlS), target: 1.3, cachedS: round(cachedS, 4),
+    rawSumsS: round(rawSumsS, 3), totalsS: round(totalsS, 4), sql: sql.sql, explain,
+  };
 }
 
 function md(r: Record<string, any>): string {
@@ -155,7 +172,11 @@ function md(r: Record<string, any>): string {
   L.push('| benchmark | Tallypost | raw baseline | ratio | target |', '| --- | --- | --- | --- | --- |');
   const imp = r.import;
   L.push(`| receipt import, ${imp.lines} lines, preview + commit end to end | ${imp.appS} s (preview ${imp.previewS} s) | papaparse + Knex batch insert: ${imp.baselineS} s | ${imp.ratio} | ≤ ${imp.target} |`);
-  if (r.margin.available) L.push(`| margin by style over all cost lines, through the API (median of ${r.margin.runs}) | ${r.margin.apiS} s | same SQL run directly: ${r.margin.sqlS} s | ${r.margin.ratio} | ≤ ${r.margin.target} |`);
+  if (r.margin.available) {
+    L.push(`| margin by style over all cost lines, through the API, computed (median of ${r.margin.runs}) | ${r.margin.apiS} s | same SQL run directly: ${r.margin.sqlS} s | ${r.margin.ratio} | ≤ ${r.margin.target} |`);
+    L.push(`| margin by style, through the API, from the report cache | ${r.margin.cachedS} s | the computed report above: ${r.margin.apiS} s | ${round(r.margin.cachedS / r.margin.apiS, 3)} | report |`);
+    L.push(`| each job's cost by category: from job_cost_totals | ${r.margin.totalsS} s | summed from every cost line, crew hour and rental: ${r.margin.rawSumsS} s | ${round(r.margin.totalsS / r.margin.rawSumsS, 3)} | report |`);
+  }
   else L.push(`| margin by style | not available (GET ${MARGIN_PATH} answered ${r.margin.status}) | | | |`);
   L.push(`| GET /api/jobs, page of 50, 20 connections, p50 latency | ${r.jobs.app.p50} ms | bare Node http, same JSON from memory: ${r.jobs.bare.p50} ms | ${r.jobs.p50Ratio} | report |`);
   const heaviest = Math.max(...r.pages.map((p: any) => p.gzipBytes));
@@ -164,7 +185,7 @@ function md(r: Record<string, any>): string {
   L.push(`| \`npm start\` to healthy, warm | ${round(r.start.warmS, 1)} s | | | ≤ 20 s |`);
   L.push('', `Peak memory (VmHWM) of the app process after the import: ${imp.peakRssMb} MB (target ≤ ${imp.peakTargetMb} MB). Lines added by the commit: ${imp.added}; rows refused: ${imp.errors}.`, '');
   const l = r.load.result;
-  L.push('## Load', '', `autocannon on loopback, 50 connections for ${l.durationS} s, signed in as the owner, cycling over: ${r.load.paths.map((p: string) => `\`${p}\``).join(', ')}.`, '');
+  L.push('## Load', '', `autocannon on loopback, 50 connections for ${l.durationS} s after 10 s of unmeasured warm-up, signed in as the owner, cycling over: ${r.load.paths.map((p: string) => `\`${p}\``).join(', ')}. The load generator runs on the same two cores as the app and MariaDB.`, '');
   L.push('| requests | req/s | p50 | p95 | p99 | errors | non-2xx | 5xx |', '| --- | --- | --- | --- | --- | --- | --- | --- |');
   L.push(`| ${l.requests} | ${l.rps} | ${l.p50} ms | ${l.p95} ms | ${l.p99} ms | ${l.errors} | ${l.non2xx} | ${l.status5xx} |`, '');
   L.push(`Targets: 0 errors and 0 5xx, p99 under 250 ms on this machine.`, '');
