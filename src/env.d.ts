@@ -7,5 +7,7 @@ declare namespace App {
     company: { id: string; name: string; slug: string } | null;
     role: import('./lib/auth/permissions').Role | null;
     memberships: import('./server/auth/session').Membership[];
+    /** The active company's data version as the request began (report cache), when known. */
+    dataVersion: number | null;
   }
 }

@@ -67,6 +67,7 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
   ctx.locals.company = null;
   ctx.locals.role = null;
   ctx.locals.memberships = [];
+  ctx.locals.dataVersion = null;
 
   // A write without an Origin, or from another site, is refused whatever its content type
   // (Astro's own check covers only form posts).

@@ -11,6 +11,8 @@ export interface Actor {
   companyId: string;
   userId: string;
   role: Role;
+  /** The company's data version as the request began, when the session read gave it (report cache). */
+  dataVersion?: number;
 }
 
 export function json(data: unknown, status = 200, headers: Record<string, string> = {}): Response {
@@ -115,7 +117,7 @@ export function actorOf(ctx: APIContext, access: Access): Actor | AppError {
   if (access === 'signed-in') return { companyId: company?.id ?? '', userId: user.id, role: role ?? 'crew_lead' };
   if (!company || !role) return new AppError('NO_COMPANY', 'Choose or create a company first.');
   if (!can(role, access)) return new AppError('FORBIDDEN', 'Your role may not do that.');
-  return { companyId: company.id, userId: user.id, role };
+  return { companyId: company.id, userId: user.id, role, ...(ctx.locals.dataVersion === null ? {} : { dataVersion: ctx.locals.dataVersion }) };
 }
 
 /**

@@ -5,9 +5,9 @@ import type { Actor } from './http.ts';
 
 /** The actor for a page, or null when the role may not open it (the page then rewrites to /forbidden). */
 export function pageActor(astro: AstroGlobal, action: Action): Actor | null {
-  const { user, company, role } = astro.locals;
+  const { user, company, role, dataVersion } = astro.locals;
   if (!user || !company || !role || !can(role, action)) return null;
-  return { companyId: company.id, userId: user.id, role };
+  return { companyId: company.id, userId: user.id, role, ...(dataVersion === null ? {} : { dataVersion }) };
 }
 
 /** Runs a service call for a page; a missing or foreign record becomes the 404 page. */

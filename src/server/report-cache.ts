@@ -29,12 +29,13 @@ export async function bumpDataVersion(companyId: string): Promise<void> {
 /**
  * The value for (company, key) at the company's current version: from this process's memory
  * when it was computed at that version, else computed now. `fresh` skips the memory (a
- * request sent with Cache-Control: no-cache).
+ * request sent with Cache-Control: no-cache); `version` is the actor's, read with the session.
  */
-export async function cachedReport<T>(companyId: string, key: string, compute: () => Promise<T>, opts: { fresh?: boolean } = {}): Promise<T> {
-  // The version is read before computing: a change committed meanwhile raises it, so the
-  // entry stored here is replaced on the next read rather than served stale.
-  const version = await dataVersion(companyId);
+export async function cachedReport<T>(companyId: string, key: string, compute: () => Promise<T>, opts: { fresh?: boolean; version?: number } = {}): Promise<T> {
+  // The version is read before computing (or came with the request's session read): a change
+  // committed meanwhile raises it, so the entry stored here is replaced on the next read
+  // rather than served stale.
+  const version = opts.version ?? (await dataVersion(companyId));
   const id = `${companyId}\u0000${key}`;
   const hit = entries.get(id);
   if (!opts.fresh && hit && hit.version === version && Date.now() - hit.at < MAX_AGE_MS) return hit.value as T;

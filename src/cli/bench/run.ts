@@ -48,8 +48,9 @@ async function timed<T>(fn: () => Promise<T>): Promise<{ s: number; value: T }> 
   return { s: secs(t0), value };
 }
 
-/** The median of n runs of fn, in seconds. */
+/** The median of n runs of fn, in seconds, after two unmeasured runs (JIT, buffer pool). */
 async function medianOf(n: number, fn: () => Promise<unknown>): Promise<number> {
+  for (let i = 0; i < 2; i++) await fn();
   const xs: number[] = [];
   for (let i = 0; i < n; i++) xs.push((await timed(fn)).s);
   xs.sort((a, b) => a - b);

@@ -17,9 +17,11 @@ export interface RequestIdentity {
   company: { id: string; name: string; slug: string } | null;
   role: Role | null;
   memberships: Membership[];
+  /** The active company's data version (report-cache.ts) as this request began; null when not read here. */
+  dataVersion: number | null;
 }
 
-const nobody: RequestIdentity = { user: null, sessionId: null, company: null, role: null, memberships: [] };
+const nobody: RequestIdentity = { user: null, sessionId: null, company: null, role: null, memberships: [], dataVersion: null };
 
 export async function membershipsOf(userId: string): Promise<Membership[]> {
   const rows = await db()('member as m')
@@ -67,15 +69,16 @@ function signedToken(cookieHeader: string | null, keys: CookieKeys): string | nu
 
 // Written out once rather than built per request: it runs on every request.
 const SESSION_SQL = `SELECT s.id AS session_id, s.expiresAt AS expires_at, s.createdAt AS created_at, s.activeOrganizationId AS active_org,
-       u.id AS user_id, u.name AS user_name, u.email, o.id AS org_id, o.name AS org_name, o.slug, m.role
+       u.id AS user_id, u.name AS user_name, u.email, o.id AS org_id, o.name AS org_name, o.slug, m.role, v.version AS data_version
   FROM session s JOIN \`user\` u ON u.id = s.userId
   LEFT JOIN member m ON m.userId = u.id LEFT JOIN organization o ON o.id = m.organizationId
+  LEFT JOIN company_data_versions v ON v.organization_id = o.id
  WHERE s.token = ? ORDER BY o.name`;
 
 interface SessionRow {
   session_id: string; expires_at: Date; created_at: Date; active_org: string | null;
   user_id: string; user_name: string; email: string;
-  org_id: string | null; org_name: string | null; slug: string | null; role: string | null;
+  org_id: string | null; org_name: string | null; slug: string | null; role: string | null; data_version: number | null;
 }
 
 /**
@@ -97,11 +100,14 @@ export async function identify(headers: Headers): Promise<RequestIdentity> {
   const expires = first ? new Date(first.expires_at).getTime() : 0;
   if (!first || expires <= now || expires - keys.expiresInMs + keys.updateAgeMs <= now) return identifyThroughAuth(headers);
   const memberships = rows.filter((r) => r.org_id && isRole(r.role)).map((r) => ({ organizationId: r.org_id!, name: r.org_name!, slug: r.slug!, role: r.role as Role }));
-  return settle(
+  const who = await settle(
     { id: first.session_id, createdAt: first.created_at, activeOrganizationId: first.active_org },
     { id: first.user_id, name: first.user_name, email: first.email },
     memberships,
   );
+  // The data version came with the memberships, so the report cache needs no query of its own.
+  const active = who.company ? rows.find((r) => r.org_id === who.company!.id) : undefined;
+  return { ...who, dataVersion: active ? Number(active.data_version ?? 0) : null };
 }
 
 /** better-auth's own reading of the session: clears an expired one, slides one due for refresh. */
@@ -142,5 +148,6 @@ async function settle(
     company: active ? { id: active.organizationId, name: active.name, slug: active.slug } : null,
     role: active?.role ?? null,
     memberships,
+    dataVersion: null,
   };
 }

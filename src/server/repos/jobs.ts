@@ -106,46 +106,44 @@ function selectJobs(q: Q, companyId: string, scope: JobScope) {
 const LIST_FIELDS = ['j.*', 'c.name as customer_name', 's.name as style_name', 'ue.name as estimator_name', 'uc.name as crew_lead_name'];
 
 /**
- * One page of jobs. The filter, the count and the order run on jobs alone where they can
- * (a join only for a name searched or sorted on), and the page's ids are looked up with their
- * names afterwards: on ten years of jobs the count and the page stay index reads.
+ * The ids of the jobs a list asks for, all of them, in its order. The filter and the order run
+ * on jobs alone where they can (a join only for a name searched or sorted on); the service
+ * keeps the result in the report cache and takes pages from it.
  */
-export async function listJobs(companyId: string, query: JobListQuery, scope: JobScope = {}, q: Q = db()): Promise<{ items: JobRow[]; total: number }> {
-  const base = q('jobs as j').where('j.organization_id', companyId);
-  if (scope.crewLeadUserId) base.andWhere('j.crew_lead_user_id', scope.crewLeadUserId);
-  if (query.status.length) base.whereIn('j.status', query.status);
-  if (query.style.length) base.whereIn('j.fence_style_id', query.style);
-  if (query.customer) base.andWhere('j.customer_id', query.customer);
-  const joinCustomer = (b: Knex.QueryBuilder) =>
+export async function jobIdsInOrder(companyId: string, query: Omit<JobListQuery, 'page' | 'pageSize'>, scope: JobScope = {}, q: Q = db()): Promise<number[]> {
+  const b = q('jobs as j').where('j.organization_id', companyId);
+  if (scope.crewLeadUserId) b.andWhere('j.crew_lead_user_id', scope.crewLeadUserId);
+  if (query.status.length) b.whereIn('j.status', query.status);
+  if (query.style.length) b.whereIn('j.fence_style_id', query.style);
+  if (query.customer) b.andWhere('j.customer_id', query.customer);
+  if (query.q || query.sort === 'customer') {
     b.join('customers as c', function () {
       this.on('c.id', 'j.customer_id').andOn('c.organization_id', 'j.organization_id');
     });
+  }
   if (query.q) {
-    joinCustomer(base);
     const like = `%${query.q.replace(/[\\%_]/g, (m) => `\\${m}`)}%`;
-    base.andWhere((w) =>
+    b.andWhere((w) =>
       w.whereILike('j.code', like).orWhereILike('j.title', like).orWhereILike('c.name', like).orWhereILike('j.site_line1', like).orWhereILike('j.site_city', like),
     );
   }
-  const page = base.clone();
-  if (query.sort === 'customer' && !query.q) joinCustomer(page);
   if (query.sort === 'style') {
-    page.leftJoin('fence_styles as s', function () {
+    b.leftJoin('fence_styles as s', function () {
       this.on('s.id', 'j.fence_style_id').andOn('s.organization_id', 'j.organization_id');
     });
   }
-  const [{ n }] = await base.clone().count({ n: '*' });
-  const total = Number(n);
-  if (total === 0) return { items: [], total };
-  page.select('j.id').orderBy(SORT_COLUMNS[query.sort], query.dir);
-  // A job code is unique in its company, so it needs no tie-break, and the page is read in
-  // the order of the (company, code) index; other columns are broken by id.
-  if (query.sort !== 'code') page.orderBy('j.id', query.dir);
-  const ids = (await page.limit(query.pageSize).offset((query.page - 1) * query.pageSize)).map((r: { id: number }) => Number(r.id));
-  if (!ids.length) return { items: [], total };
+  b.select('j.id').orderBy(SORT_COLUMNS[query.sort], query.dir);
+  // A job code is unique in its company, so it needs no tie-break; other columns are broken by id.
+  if (query.sort !== 'code') b.orderBy('j.id', query.dir);
+  return (await b).map((r: { id: number }) => Number(r.id));
+}
+
+/** These jobs, with their names, in the order given (ids no longer there are left out). */
+export async function jobsByIds(companyId: string, ids: number[], scope: JobScope = {}, q: Q = db()): Promise<JobRow[]> {
+  if (!ids.length) return [];
   const rows = await selectJobs(q, companyId, scope).whereIn('j.id', ids).select(LIST_FIELDS);
   const byId = new Map(rows.map((r: Record<string, unknown>) => [Number(r.id), r]));
-  return { items: ids.flatMap((id) => (byId.has(id) ? [fromRow(byId.get(id)!)] : [])), total };
+  return ids.flatMap((id) => (byId.has(id) ? [fromRow(byId.get(id)!)] : []));
 }
 
 export async function findJob(companyId: string, id: number, scope: JobScope = {}, q: Q = db()): Promise<Job | undefined> {

@@ -1,5 +1,6 @@
 import { db } from '../db.ts';
 import type { Actor } from '../http.ts';
+import { cachedReport, filterKey } from '../report-cache.ts';
 import { AppError, notFound } from '../../lib/errors.ts';
 import { can } from '../../lib/auth/permissions.ts';
 import { formatJobCode, type Job, type JobInput, type JobListQuery, type JobRow } from '../../lib/jobs/schema.ts';
@@ -20,9 +21,17 @@ function redact<T extends JobRow>(actor: Actor, job: T): T {
   return can(actor.role, 'bids:read') ? job : { ...job, contractCents: null };
 }
 
+/**
+ * One page of the jobs table. The order of every job the filter matches is kept in the report
+ * cache while the company's data is unchanged (a new job, an edit or a new customer name raises
+ * its version), so paging and re-sorting read only the page's rows.
+ */
 export async function listJobs(actor: Actor, query: JobListQuery): Promise<{ items: JobRow[]; total: number; page: number; pageSize: number }> {
-  const { items, total } = await jobs.listJobs(actor.companyId, query, scopeFor(actor));
-  return { items: items.map((j) => redact(actor, j)), total, page: query.page, pageSize: query.pageSize };
+  const scope = scopeFor(actor);
+  const { page, pageSize, ...order } = query;
+  const ids = await cachedReport(actor.companyId, filterKey('job-order', { ...order, crewLead: scope.crewLeadUserId }), () => jobs.jobIdsInOrder(actor.companyId, order, scope), { version: actor.dataVersion });
+  const items = await jobs.jobsByIds(actor.companyId, ids.slice((page - 1) * pageSize, page * pageSize), scope);
+  return { items: items.map((j) => redact(actor, j)), total: ids.length, page, pageSize };
 }
 
 export async function getJob(actor: Actor, id: number): Promise<Job> {

@@ -38,10 +38,11 @@ export async function marginScreen(actor: Actor, filter: ReportFilter) {
  * Served from the report cache while the company's data is unchanged; `fresh` recomputes.
  */
 export async function marginReport(actor: Actor, filter: ReportFilter, opts: { fresh?: boolean } = {}) {
+  // The filter choices come with the screen's first view; a new filter needs only the figures.
   return cachedReport(actor.companyId, filterKey('margin-by-style', stripFormat(filter)), async () => {
-    const { jobs: _jobs, ...rest } = await marginScreen(actor, filter);
-    return rest;
-  }, opts);
+    const [ctx, jobs] = await Promise.all([context(actor.companyId), margins(actor, filter)]);
+    return { ...ctx, filter: stripFormat(filter), ...marginByStyle(jobs), months: marginByMonth(jobs) };
+  }, { ...opts, version: actor.dataVersion });
 }
 
 export async function jobsReport(actor: Actor, filter: ReportFilter) {

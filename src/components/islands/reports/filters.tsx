@@ -34,7 +34,8 @@ export function useReport<T>(paths: string | string[], initialFilter: Filter, in
     Promise.all((Array.isArray(paths) ? paths : [paths]).map((p) => api<Partial<T>>(`${p}?${query}`, { signal: ctrl.signal }))).then((rs) => {
       const bad = rs.find((r) => !r.ok);
       if (bad && !bad.ok) setError(bad.error.fields ? Object.values(bad.error.fields).join(' ') : bad.error.message);
-      else { setData(Object.assign({}, ...rs.map((r) => (r.ok ? r.data : {}))) as T); setError(null); }
+      // What an answer leaves out (the filter choices, sent with the first view) stays as it was.
+      else { setData((prev) => Object.assign({}, prev, ...rs.map((r) => (r.ok ? r.data : {}))) as T); setError(null); }
       setLoading(false);
     }).catch(() => {});
     return () => ctrl.abort();
