@@ -31,7 +31,7 @@ const costLinesOf = async (importId: number) => {
 
 describe('an app killed in the middle of committing an import', () => {
   it('leaves the import whole or absent, never partial, and committing again works', async () => {
-    const LINES = 40_000;
+    const LINES = 25_000;
     const app = await startApp();
     extra.push(app);
     const c = new Client(app.url);

@@ -25,3 +25,9 @@ export function mailer(): Transporter {
   }
   return transport;
 }
+
+/** Closes the pooled SMTP connections, so a stopping worker exits at once. */
+export function closeMailer(): void {
+  transport?.close();
+  transport = undefined;
+}

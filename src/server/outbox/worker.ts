@@ -148,13 +148,25 @@ export async function drainOutbox(k: Knex = db()): Promise<number> {
 /** The worker loop: survives database restarts, stops on SIGINT/SIGTERM. */
 export async function runWorker(opts: { intervalMs?: number; signal?: AbortSignal } = {}): Promise<void> {
   const interval = opts.intervalMs ?? 500;
+  // Periodic jobs run beside the outbox, never in front of it: a slow pass (reminders for
+  // every company, retrying the card processor) must not hold up the mail.
+  let periodicPass: Promise<void> | null = null;
   while (!opts.signal?.aborted) {
+    periodicPass ??= (async () => {
+      for (const job of periodic) {
+        try {
+          await job();
+        } catch (err) {
+          console.error('[worker]', err instanceof Error ? err.message : err);
+        }
+      }
+    })().finally(() => { periodicPass = null; });
     try {
-      for (const job of periodic) await job();
       await drainOutbox();
     } catch (err) {
       console.error('[worker]', err instanceof Error ? err.message : err);
     }
     await new Promise((r) => setTimeout(r, interval));
   }
+  await periodicPass;
 }
