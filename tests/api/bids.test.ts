@@ -231,6 +231,16 @@ describe('labour rates are versioned', () => {
     expect(rate(after)).toBe(0.3);
     expect(after.costByCategory.labour).toBeGreaterThan(before.costByCategory.labour);
   });
+
+  it('numbers rate edits made at the same moment one after the other, none lost', async () => {
+    const values = [0.11, 0.12, 0.13, 0.14, 0.15, 0.16];
+    const res = await Promise.all(values.map((v) => co.estimator.post(`/api/rates/${wood}`, { values: { gate_hours: v }, reason: `Edit ${v}` })));
+    for (const r of res) expect(r.status, r.text).toBe(201);
+    const hist = (await co.estimator.get(`/api/rates/${wood}`)).body.history.filter((h: { kind: string }) => h.kind === 'gate_hours');
+    const nos = hist.map((h: { versionNo: number }) => h.versionNo).sort((a: number, b: number) => a - b);
+    expect(nos).toEqual(Array.from({ length: nos.length }, (_, i) => i + 1));
+    expect(hist.filter((h: { reason: string }) => h.reason.startsWith('Edit ')).map((h: { value: number }) => h.value).sort()).toEqual(values);
+  });
 });
 
 describe('before the dig', () => {

@@ -245,6 +245,8 @@ describe('the invoice PDF', () => {
     expect(text).toContain(`${job.code} · Warehouse chain link`);
     expect(text).toContain('14 Larkspur Lane, Riverton, OR 97101');
     line(new RegExp(`Invoice ${esc(inv.numberText)}`));
+    // Status in the customer's words (part paid), not staff wording such as "Issued, not sent"
+    line(/^Status Part paid, balance due$/);
     // Lines: quantity, unit price and amount on the description's first printed line, the
     // description (wrapped over the lines below it) whole, taxable ones marked *.
     expect(now.lines.length).toBeGreaterThan(0);

@@ -65,6 +65,8 @@ describe('getting paid, as the owner and as the customer', () => {
     await pay.goto(href);
     await hydrated(pay);
     expect(await pay.getByTestId('invoice-number').textContent()).toContain(number);
+    // The customer reads what they owe, not the company's sending state.
+    expect(await pay.getByTestId('invoice-status').textContent()).toBe('Due');
     await shot(pay, 'invoices-customer-page');
     await pay.getByRole('button', { name: /^Pay online/ }).click();
     await pay.waitForURL(new RegExp(`^${stack().stripeApi}/checkout/`));

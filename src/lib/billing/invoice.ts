@@ -23,6 +23,17 @@ export const INVOICE_STATUS_LABELS: Record<InvoiceStatus | 'overdue', string> = 
 };
 
 /**
+ * The state as the customer reads it on the PDF and the pay page: whether the invoice was
+ * e-mailed is the company's business, not theirs.
+ */
+export const CUSTOMER_STATUS_LABELS: Record<InvoiceStatus | 'overdue', string> = {
+  ...INVOICE_STATUS_LABELS,
+  issued: 'Due',
+  partly_paid: 'Part paid, balance due',
+  overdue: 'Past due',
+};
+
+/**
  * The state as staff read it: an invoice issued (numbered) but never e-mailed says so, so
  * the owner does not take it for one the customer has.
  */

@@ -1,7 +1,7 @@
 import PDFDocument from 'pdfkit';
 import { formatDate, formatMoney, type CurrencyCode } from '../../lib/format.ts';
 import { TERMS_LABELS } from '../../lib/billing/terms.ts';
-import { INVOICE_STATUS_LABELS } from '../../lib/billing/invoice.ts';
+import { CUSTOMER_STATUS_LABELS } from '../../lib/billing/invoice.ts';
 import type { InvoiceDetail } from '../services/invoices.ts';
 import type { BillingSettings } from '../repos/billing-settings.ts';
 import { INTER_REGULAR, INTER_SEMIBOLD } from './font.ts';
@@ -45,7 +45,7 @@ export function renderInvoicePdf(inv: InvoiceDetail, s: BillingSettings): Promis
     ['Issued', formatDate(inv.issuedOn)],
     ['Terms', inv.terms === 'custom' ? `Net ${inv.termsDays} days` : TERMS_LABELS[inv.terms]],
     ['Due', formatDate(inv.dueOn)],
-    ['Status', INVOICE_STATUS_LABELS[inv.displayStatus]],
+    ['Status', CUSTOMER_STATUS_LABELS[inv.displayStatus]],
   ];
   let y = 82;
   for (const [k, v] of facts) {

@@ -96,6 +96,10 @@ export async function rateHistory(actor: Actor, styleId: number) {
 export async function setRates(actor: Actor, styleId: number, values: Partial<Rates>, reason: string) {
   await getStyle(actor, styleId);
   const written = await db().transaction(async (trx) => {
+    // The style's row first, locked, as calibration does: two rate edits (or an edit and a
+    // calibration) of one style number their versions one after the other.
+    const locked = await trx('fence_styles').where({ organization_id: actor.companyId, id: styleId }).forUpdate().first('id');
+    if (!locked) throw notFound('That fence style');
     const n = await rates.addRateVersions(actor.companyId, styleId, values, reason, actor.userId, trx);
     if (n) await audit(trx, actor, 'labour_rates', styleId, 'version', { values, reason });
     return n;
