@@ -86,8 +86,49 @@ describe('an estimator bids a demo lead', () => {
     expect(await text(page, 'print-price')).toBe(finalPrice);
     expect(await text(page, 'printable-bid')).toMatch(/811/);
     expect(await text(page, 'printable-bid')).toMatch(/Property lines are the owner's responsibility/);
+    // The whole title stays in the head: nothing of it spills onto the printed page.
+    expect(await page.title()).toMatch(/^Bid J-\d+-\d+ · .+/);
+    expect((await page.locator('body').innerText()).trim()).toMatch(/^← Back to version/);
     await shot(page, 'bids-printable');
     expect(problems.filter((p) => /Content Security Policy|Refused|NaN/.test(p))).toEqual([]);
+    await ctx.close();
+  });
+
+  it('flags a scope carried over from the last version once the fence changes, and can clear it', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1400, height: 1000 } });
+    const page = await signIn(ctx, base(), 'estimator@example.com', stack().demoPassword);
+    const styles = await (await page.request.get(`${base()}/api/styles`)).json();
+    const woodId = styles.items.find((s: { name: string }) => s.name === 'Wood privacy 6 ft').id;
+    const customers = await (await page.request.get(`${base()}/api/customers`)).json();
+    const created = await page.request.post(`${base()}/api/jobs`, {
+      data: { title: 'Side yard privacy', customerId: customers.items[0].id, fenceStyleId: woodId, status: 'measured' },
+      headers: { origin: base() },
+    });
+    expect(created.status()).toBe(201);
+    const jobId = (await created.json()).id;
+    const scope = 'Supply and install 64 ft of wood privacy fence with one walk gate.';
+    const v1 = await page.request.post(`${base()}/api/jobs/${jobId}/bids`, {
+      data: { styleId: woodId, scope, runs: [{ lengthFt: 64, heightIn: 72, label: 'Side' }], gates: [{ runIndex: 0, widthFt: 4 }], target: { mode: 'margin', pct: 32 } },
+      headers: { origin: base() },
+    });
+    expect(v1.status()).toBe(201);
+    await page.goto(`${base()}/jobs/${jobId}`);
+    await page.getByTestId('bids-panel').getByRole('link', { name: 'New bid version' }).click();
+    await page.waitForURL(/\/bids\/new/);
+    await hydrated(page);
+    const box = page.getByLabel('Scope of work');
+    expect(await box.inputValue()).toBe(scope);
+    expect(await page.getByTestId('scope-stale').count()).toBe(0);
+    await page.getByLabel('Run 1 length in feet').fill('80');
+    await expect.poll(() => text(page, 'scope-stale')).toContain('(Wood privacy 6 ft, 64 ft, 1 gate); the fence is now Wood privacy 6 ft, 80 ft, 1 gate');
+    await shot(page, 'bids-builder-scope-stale');
+    // Back to the fence it was written for: nothing to flag.
+    await page.getByLabel('Run 1 length in feet').fill('64');
+    await expect.poll(() => page.getByTestId('scope-stale').count()).toBe(0);
+    await page.getByLabel('Run 1 length in feet').fill('80');
+    await page.getByTestId('scope-stale').getByRole('button', { name: 'or clear it' }).click();
+    expect(await box.inputValue()).toBe('');
+    expect(await page.getByTestId('scope-stale').count()).toBe(0);
     await ctx.close();
   });
 

@@ -35,6 +35,28 @@ describe('signing in as each role', () => {
     });
   }
 
+  it('a crew lead sees the work ahead: their won and building jobs, where each locate ticket stands, and a way to log hours', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+    const page = await signIn(ctx, base(), 'crew@example.com', stack().demoPassword);
+    const board = page.getByTestId('crew-board');
+    await board.waitFor();
+    // The selling stages are not a crew lead's: only won, building and completed are counted.
+    const tiles = page.getByRole('region', { name: 'Your jobs' }).locator('li');
+    expect(await tiles.allInnerTexts()).toEqual([expect.stringMatching(/^Won\s+\d+$/), expect.stringMatching(/^Building\s+\d+$/), expect.stringMatching(/^Completed\s+\d+$/)]);
+    const count = async (label: string) => Number((await tiles.filter({ hasText: label }).innerText()).replace(/\D+/g, ''));
+    const rows = board.getByTestId('crew-board-job');
+    expect(await rows.count()).toBe((await count('Won')) + (await count('Building')));
+    expect(await rows.count()).toBeGreaterThan(0);
+    for (const pill of await board.getByTestId('crew-board-locate').allInnerTexts()) {
+      expect(pill).toMatch(/^(No locate ticket on file|Ticket on file; wait for the marks|Ticket on file and current|Ticket expired; call in a new one)/);
+    }
+    const first = rows.first();
+    const jobHref = await first.getByRole('link').first().getAttribute('href');
+    expect(await first.getByRole('link', { name: 'Log hours' }).getAttribute('href')).toBe(`/time?job=${jobHref!.split('/').pop()}`);
+    await shot(page, 'crew-dashboard-work-ahead');
+    await ctx.close();
+  });
+
   it('a crew lead on a phone reads the jobs as cards', async () => {
     const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
     const page = await signIn(ctx, base(), 'crew@example.com', stack().demoPassword);

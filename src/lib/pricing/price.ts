@@ -73,6 +73,8 @@ export interface PricedLine {
   /** material lines: quantity before waste and the waste added */
   takeoffQty: number | null;
   wastePct: number | null;
+  /** what the takeoff says of the quantity (e.g. spare pieces bought for waste) */
+  detail?: string;
 }
 
 export interface Pricing {
@@ -138,7 +140,7 @@ export function priceTakeoff(
     push({
       key: `material:${m.sku}`, category: it?.category ?? 'material', kind: 'material', description: it?.name ?? m.label, sku: m.sku, unit: it?.unit ?? m.unit,
       qty: m.buyQty, unitCostCents: it?.unitCostCents ?? 0, priced: Boolean(it), itemId: it?.itemId ?? null, supplierName: it?.supplierName ?? null,
-      lastSeenOn: it?.lastSeenOn ?? null, takeoffQty: m.takeoffQty, wastePct: m.wastePct,
+      lastSeenOn: it?.lastSeenOn ?? null, takeoffQty: m.takeoffQty, wastePct: m.wastePct, ...(m.note ? { detail: m.note } : {}),
     });
   }
   const loaded = loadedWageCents(rates.crew_wage_cents, settings.labourBurdenPct);

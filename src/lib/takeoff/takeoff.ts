@@ -378,7 +378,8 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
       add({
         sku: st.sku, label: `${label} ${st.lengthFt} ft`, group, unit: 'each', takeoffQty: n, wasteKey, buyQty: buy,
         boardFeetEach: nominal ? boardFeet(nominal.thicknessIn, nominal.widthIn, st.lengthFt) : null,
-        ...(spares && buy > n ? { note: `${spares} spare ${spares === 1 ? 'piece' : 'pieces'} for waste` } : {}),
+        // Spares are counted over the group and packed with it, so a length can be bought for spares alone.
+        ...(spares && buy > n ? { note: `${buy - n} more for waste: ${spares} spare ${spares === 1 ? 'piece' : 'pieces'} of ${formatFeetInches(longestPiece)} over all ${label} lengths` } : {}),
       });
     }
     return true;
@@ -418,7 +419,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     } else {
       const st = rails.stock[0];
       const feet = fenceSegments.reduce((a, { run, seg }) => a + railsFor(recipe, runs[run].heightIn) * seg.lengthFt, 0);
-      if (feet) add({ sku: st.sku, label: `${rails.label} ${st.lengthFt} ft`, group: 'rails', unit: 'each', takeoffQty: feet / st.lengthFt, wasteKey: 'rails', note: `${r4(feet)} ft of rail` });
+      if (feet) add({ sku: st.sku, label: `${rails.label} ${st.lengthFt} ft`, group: 'rails', unit: 'each', takeoffQty: feet / st.lengthFt, wasteKey: 'rails', note: `${roundTo(feet, 2)} ft of rail` });
     }
   }
   if (recipe.cap) {
@@ -465,7 +466,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
       feetBySku.set(roll.sku, e);
     }
     for (const { roll, ft } of feetBySku.values())
-      add({ sku: roll.sku, label: roll.label, group: 'infill', unit: 'roll', takeoffQty: ft / infill.rollLengthFt, wasteKey: 'infill', note: `${r4(ft)} ft of fence, ${roll.heightIn} in fabric` });
+      add({ sku: roll.sku, label: roll.label, group: 'infill', unit: 'roll', takeoffQty: ft / infill.rollLengthFt, wasteKey: 'infill', note: `${roundTo(ft, 2)} ft of fence, ${roll.heightIn} in fabric` });
   }
 
   const holes = nodes.length;
@@ -476,7 +477,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     // Rounded up once, over the whole job, after waste: not bag by bag at each hole.
     const bags = withWaste(cuFt / c.bagYieldCuFt, recipe.wastePct.concrete);
     concrete = { cuFt: r4(cuFt), bagLb: c.bagLb, bagYieldCuFt: c.bagYieldCuFt, bags };
-    if (holes) add({ sku: c.sku, label: c.label, group: 'concrete', unit: 'bag', takeoffQty: cuFt / c.bagYieldCuFt, wasteKey: 'concrete', buyQty: bags, note: `${r4(cuFt)} ft³ at ${c.bagYieldCuFt} ft³ a ${c.bagLb} lb bag` });
+    if (holes) add({ sku: c.sku, label: c.label, group: 'concrete', unit: 'bag', takeoffQty: cuFt / c.bagYieldCuFt, wasteKey: 'concrete', buyQty: bags, note: `${roundTo(cuFt, 2)} ft³ at ${c.bagYieldCuFt} ft³ a ${c.bagLb} lb bag` });
   }
   let gravel: Takeoff['gravel'] = null;
   if (recipe.hole.gravel && recipe.hole.gravelDepthIn > 0) {
@@ -484,7 +485,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     const cuFt = cuInToCuFt(postGroups.reduce((a, g) => a + g.gravelCuInEach * g.count, 0));
     const bags = withWaste(cuFt / gv.bagCuFt, recipe.wastePct.gravel);
     gravel = { cuFt: r4(cuFt), bags };
-    if (holes) add({ sku: gv.sku, label: gv.label, group: 'gravel', unit: 'bag', takeoffQty: cuFt / gv.bagCuFt, wasteKey: 'gravel', buyQty: bags, note: `${r4(cuFt)} ft³` });
+    if (holes) add({ sku: gv.sku, label: gv.label, group: 'gravel', unit: 'bag', takeoffQty: cuFt / gv.bagCuFt, wasteKey: 'gravel', buyQty: bags, note: `${roundTo(cuFt, 2)} ft³` });
   }
 
   const postCount = (k: PostKind) => nodes.filter((n) => n.kind === k).length;

@@ -62,6 +62,20 @@ function fullBook(): Map<string, PriceItem> {
 }
 
 describe('pricing a takeoff', () => {
+  it('says on a stock length bought only for spares why it is bought', () => {
+    // 80 ft with a 4 ft gate: thirty 7 ft 7¼ in rails fill fifteen 16 ft boards exactly; the
+    // three spare rails (10 % waste) take one more 16 ft board and one 8 ft board.
+    const t = computeTakeoff(layoutInput.parse({ runs: [{ lengthFt: 80, heightIn: 72 }], gates: [{ runIndex: 0, widthFt: 4 }] }), recipeFor('wood_privacy'), ratesFor('wood_privacy'), NO_SITE_RULES);
+    if (!t.ok) throw new Error('takeoff failed');
+    const p = priceTakeoff(t, fullBook(), ratesFor('wood_privacy'), settings, { mode: 'margin', pct: 32, includeTax: true });
+    const rails = p.lines.filter((l) => l.kind === 'material' && /rail/.test(l.description));
+    const sparesOnly = rails.filter((l) => l.takeoffQty === 0);
+    expect(sparesOnly.length).toBeGreaterThan(0);
+    for (const l of sparesOnly) expect(l.detail).toMatch(/^\d+ more for waste: \d+ spare pieces of .+ over all .+ lengths$/);
+    // Lines the takeoff needs as they are carry no such word.
+    for (const l of rails.filter((x) => x.qty === x.takeoffQty)) expect(l.detail).toBeUndefined();
+  });
+
   it('sums the lines by category and prices to the target margin, then the bid rounding, then tax on materials', () => {
     const p = priceTakeoff(takeoff(), fullBook(), ratesFor('wood_privacy'), settings, { mode: 'margin', pct: 32, includeTax: true }, [{ category: 'permit', description: 'Fence permit', amountCents: 7500 }]);
     expect(p.warnings).toEqual([]);

@@ -89,6 +89,14 @@ export default function BidBuilder(p: Props) {
   const takeoff = ok?.takeoff ?? null;
   const pricing = ok?.pricing ?? null;
 
+  // The scope carried over from the version this one started from is free text: once the
+  // fence itself changes (style, length or gates), it may describe a different fence.
+  const fenceOf = (sid: number, lengths: number[], gateCount: number) =>
+    `${p.styles.find((x) => x.id === sid)?.name ?? 'another style'}, ${q(lengths.reduce((a, b) => a + (Number.isFinite(b) ? b : 0), 0), 1)} ft, ${gateCount} gate${gateCount === 1 ? '' : 's'}`;
+  const startFence = start ? fenceOf(start.styleId, start.runs.map((r) => r.lengthFt), start.gates.length) : null;
+  const nowFence = fenceOf(styleId, raw.runs.map((r) => r.lengthFt), gates.length);
+  const scopeStale = startFence !== null && scope.trim() !== '' && scope === start?.scope && startFence !== nowFence;
+
   const touch = () => { setSaved(null); setServerFields({}); setServerError(null); };
   const setRun = (i: number, patch: Partial<RunRow>) => { touch(); setRuns(runs.map((r, k) => (k === i ? { ...r, ...patch } : r))); };
   const addRun = () => {
@@ -361,7 +369,15 @@ export default function BidBuilder(p: Props) {
       <section className="card grid gap-4 md:grid-cols-2" aria-labelledby="words-h">
         <h2 id="words-h" className="md:col-span-2">What the customer reads</h2>
         <label className="md:col-span-2"><span className="label">Title</span><input className="input" value={title} placeholder="e.g. Back yard privacy fence" onChange={(e) => { touch(); setTitle(e.target.value); }} /></label>
-        <label className="md:col-span-2"><span className="label">Scope of work</span><textarea className="input" rows={3} value={scope} placeholder="What we supply and install." onChange={(e) => { touch(); setScope(e.target.value); }} /></label>
+        <div className="md:col-span-2">
+          <label><span className="label">Scope of work</span><textarea className="input" rows={3} value={scope} placeholder="What we supply and install." aria-describedby={scopeStale ? 'scope-stale' : undefined} onChange={(e) => { touch(); setScope(e.target.value); }} /></label>
+          {scopeStale && (
+            <p id="scope-stale" className="mt-1 rounded-md bg-timber-50 px-3 py-2 text-sm text-timber-800" data-testid="scope-stale">
+              This scope was written for the earlier version ({startFence}); the fence is now {nowFence}. Read it again before the customer does,{' '}
+              <button type="button" className="underline" onClick={() => { touch(); setScope(''); }}>or clear it</button> and let the printed bid describe the fence from the takeoff.
+            </p>
+          )}
+        </div>
         <label><span className="label">Terms</span><textarea className="input" rows={4} value={terms} onChange={(e) => { touch(); setTerms(e.target.value); }} /></label>
         <label><span className="label">Not included</span><textarea className="input" rows={4} value={exclusions} onChange={(e) => { touch(); setExclusions(e.target.value); }} /></label>
       </section>
@@ -398,6 +414,7 @@ function LineRow({ line: l, editing, override, onEdit, onChange, onClear }: {
           {l.sku && <span className="ml-1 text-xs text-galv-500">{l.sku}</span>}
           {l.overridden && <span className="pill ml-2 bg-timber-200 text-timber-900" title={l.note}>adjusted</span>}
           {!l.priced && <span className="pill ml-2 bg-rust-100 text-rust-700">no price</span>}
+          {l.detail && <span className="block text-xs text-galv-500">{l.detail}</span>}
         </td>
         <td className="num">{l.takeoffQty != null ? q(l.takeoffQty) : ''}</td>
         <td className="num">{l.wastePct != null ? `${q(l.wastePct)} %` : ''}</td>
