@@ -31,6 +31,21 @@ export function formatDate(iso: string | null | undefined): string {
   return dateFormat.format(d);
 }
 
+const dateTimeFormats = new Map<string, Intl.DateTimeFormat>();
+/** A moment as the company's office reads it: its own time zone, named ("Dec 2, 2026, 2:05 AM CST"). */
+export function formatDateTime(iso: string | Date, timeZone: string): string {
+  let f = dateTimeFormats.get(timeZone);
+  if (!f) {
+    try {
+      f = new Intl.DateTimeFormat('en-US', { timeZone, year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short' });
+    } catch {
+      f = new Intl.DateTimeFormat('en-US', { timeZone: 'UTC', year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short' });
+    }
+    dateTimeFormats.set(timeZone, f);
+  }
+  return f.format(typeof iso === 'string' ? new Date(iso) : iso);
+}
+
 export function formatPct(value: number | null | undefined, digits = 1): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
   return `${value.toFixed(digits)} %`;

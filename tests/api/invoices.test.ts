@@ -196,6 +196,26 @@ describe('issued invoices', () => {
     expect(await pill(`/jobs/${job.id}`)).toBe('Sent, unpaid');
   });
 
+  it('keeps the office time zone the owner chooses, refuses an unknown one, and dates the invoice history in it', async () => {
+    expect((await co.owner.get('/api/settings')).body.timezone).toBe('America/Chicago');
+    const bad = await co.owner.patch('/api/settings', { timezone: 'Mars/Olympus_Mons' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.timezone).toBe('Choose a time zone.');
+    expect((await co.estimator.patch('/api/settings', { timezone: 'Pacific/Honolulu' })).status).toBe(403);
+    try {
+      // Hawaii keeps no daylight saving: HST all year, so the abbreviation is fixed.
+      expect((await co.owner.patch('/api/settings', { timezone: 'Pacific/Honolulu' })).status).toBe(200);
+      expect((await co.owner.get('/api/settings')).body.timezone).toBe('Pacific/Honolulu');
+      const { job } = await billableJob(co);
+      const d = await draft(co.owner, { jobId: job.id, kind: 'deposit', basisPct: 10 });
+      const html = (await co.owner.get(`/invoices/${d.id}`, { accept: 'text/html' })).text;
+      expect(html).toMatch(/\d{1,2}:\d{2}\s(AM|PM)\sHST<\/span>\s*·\s*Test Owner\s*·\s*<b>Drafted<\/b>/);
+      expect(html).not.toContain(' UTC</span>');
+    } finally {
+      expect((await co.owner.patch('/api/settings', { timezone: 'America/Chicago' })).status).toBe(200);
+    }
+  });
+
   it('gives a PDF to staff and to the signed link, and nothing to a forged link', async () => {
     const { job } = await billableJob(co);
     const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', basisPct: 10 })).id);

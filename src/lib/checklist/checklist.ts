@@ -49,6 +49,25 @@ export function buildingGate(status: LocateStatus, overrideReason: string | null
   };
 }
 
+/**
+ * What the checklist says of the ticket for the job's stage: before building it is the
+ * gate; once the crew is on site a lapsed ticket matters for any digging left; after the
+ * job is finished it is a record.
+ */
+export function gateAdvice(status: LocateStatus, overrideReason: string | null, jobStatus: string): { ok: boolean; message: string } {
+  const gate = buildingGate(status, overrideReason);
+  if (jobStatus === 'building' && !gate.ok) {
+    return {
+      ok: false,
+      message: status === 'expired'
+        ? 'The locate ticket has expired while the job is being built. If any digging is left, call in a new ticket and wait for the marks first.'
+        : 'No locate ticket is on file for a job being built. Put it on file before anyone digs (or the owner records an override with a reason).',
+    };
+  }
+  if (jobStatus === 'completed' || jobStatus === 'closed' || jobStatus === 'lost') return { ok: true, message: 'The job is past digging; the checklist stays as its record.' };
+  return gate.ok ? { ok: true, message: gate.message || 'The job may move to building.' } : gate;
+}
+
 /** Whether the fence needs a permit by the company's height limits per yard position. */
 export function permitNeeded(runs: readonly { heightIn: number; yard: YardPosition }[], limits: Record<YardPosition, number | null>): { needed: boolean | null; reasons: string[] } {
   if (!runs.length) return { needed: null, reasons: [] };

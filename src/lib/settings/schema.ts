@@ -12,6 +12,29 @@ const inches = z.union([z.number(), z.string()]).nullish()
   .refine((v) => v === null || (Number.isFinite(v) && v >= 0 && v <= 144), 'Inches from 0 to 144, or leave it empty.');
 const isoDay = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use dates such as 2026-12-25.').refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'Not a calendar date.');
 
+/** The office's clock: what "today" is for due dates, aging, reminders and the locate ticket. */
+export const TIME_ZONES: readonly (readonly [string, string])[] = [
+  ['America/New_York', 'Eastern'],
+  ['America/Chicago', 'Central'],
+  ['America/Denver', 'Mountain'],
+  ['America/Phoenix', 'Mountain, no daylight saving (Arizona)'],
+  ['America/Los_Angeles', 'Pacific'],
+  ['America/Anchorage', 'Alaska'],
+  ['Pacific/Honolulu', 'Hawaii'],
+  ['America/Regina', 'Central, no daylight saving (Saskatchewan)'],
+  ['America/Halifax', 'Atlantic'],
+  ['America/St_Johns', 'Newfoundland'],
+];
+/** Any zone name the runtime's time-zone database knows (e.g. America/Chicago). */
+export function isTimeZone(name: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en-US', { timeZone: name });
+    return name.length > 0;
+  } catch {
+    return false;
+  }
+}
+
 export const LOCATE_BASES = ['business', 'calendar'] as const;
 
 const pct = (max: number) => z.coerce.number().min(0, 'Cannot be negative.').max(max, `At most ${max} %.`);
@@ -26,6 +49,7 @@ export const settingsInput = z.strictObject({
   taxMode: z.enum(TAX_MODES),
   taxRatePct: pct(25),
   bidRoundingCents: z.coerce.number().int().min(1).max(100_000),
+  timezone: z.string().trim().max(64).refine(isTimeZone, 'Choose a time zone.'),
   addressLine: z.string().trim().max(255).nullable().optional(),
   city: z.string().trim().max(120).nullable().optional(),
   region: z.string().trim().max(60).nullable().optional(),

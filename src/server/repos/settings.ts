@@ -13,6 +13,7 @@ const COLUMNS: Record<keyof SettingsInput, string> = {
   taxMode: 'tax_mode',
   taxRatePct: 'tax_rate_pct',
   bidRoundingCents: 'bid_rounding_cents',
+  timezone: 'timezone',
   addressLine: 'address_line',
   city: 'city',
   region: 'region',

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { addBusinessDays as dfAddBusinessDays, format } from 'date-fns';
 import { addBusinessDays, daysBetween, isBusinessDay, MON_TO_FRI } from '../../../src/lib/checklist/business-days';
-import { buildingGate, checklistInput, locateDates, locateStatus, permitNeeded, type LocateRules } from '../../../src/lib/checklist/checklist';
+import { buildingGate, checklistInput, gateAdvice, locateDates, locateStatus, permitNeeded, type LocateRules } from '../../../src/lib/checklist/checklist';
 
 const rules: LocateRules = { waitBusinessDays: 2, validDays: 14, validBasis: 'calendar', calendar: MON_TO_FRI };
 
@@ -63,5 +63,16 @@ describe('permits by yard position', () => {
     expect(permitNeeded([{ heightIn: 72, yard: 'back' }], limits)).toEqual({ needed: false, reasons: [] });
     expect(permitNeeded([{ heightIn: 60, yard: 'front' }], limits).needed).toBe(true);
     expect(permitNeeded([{ heightIn: 60, yard: 'front' }], { ...limits, front: null }).needed).toBe(null);
+  });
+});
+
+describe('what the checklist says at each stage of the job', () => {
+  it('is the gate before building, a warning for digging left while building, and a record afterwards', () => {
+    expect(gateAdvice('expired', null, 'won')).toEqual({ ok: false, message: expect.stringMatching(/before the job moves to building/) });
+    expect(gateAdvice('ready', null, 'won')).toEqual({ ok: true, message: 'The job may move to building.' });
+    expect(gateAdvice('expired', null, 'building')).toEqual({ ok: false, message: expect.stringMatching(/^The locate ticket has expired while the job is being built\. If any digging is left/) });
+    expect(gateAdvice('missing', null, 'building').message).toMatch(/before anyone digs/);
+    expect(gateAdvice('expired', 'Post repair only, no new holes', 'building')).toEqual({ ok: true, message: 'Owner override on file: Post repair only, no new holes' });
+    for (const s of ['completed', 'closed', 'lost']) expect(gateAdvice('expired', null, s)).toEqual({ ok: true, message: 'The job is past digging; the checklist stays as its record.' });
   });
 });

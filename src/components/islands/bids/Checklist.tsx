@@ -1,18 +1,18 @@
 import { useState } from 'react';
 import type { checklistFor } from '../../../server/services/checklist';
-import { checklistInput } from '../../../lib/checklist/checklist';
+import { checklistInput, gateAdvice } from '../../../lib/checklist/checklist';
 import { formatDate } from '../../../lib/format';
 import { api } from '../ui/api';
 import { Field, FormError } from '../ui/Field';
 import { validate } from '../ui/form';
 
 type State = Awaited<ReturnType<typeof checklistFor>>;
-interface Props { jobId: number; initial: State; canWrite: boolean; canOverride: boolean }
+interface Props { jobId: number; jobStatus: string; initial: State; canWrite: boolean; canOverride: boolean }
 
 const TONE = { missing: 'bg-rust-100 text-rust-700', expired: 'bg-rust-100 text-rust-700', waiting: 'bg-timber-100 text-timber-800', ready: 'bg-moss-100 text-moss-700' } as const;
 
 /** The pre-dig checklist: the locate ticket with its dates, permit, HOA and property line. */
-export default function Checklist({ jobId, initial, canWrite, canOverride }: Props) {
+export default function Checklist({ jobId, jobStatus, initial, canWrite, canOverride }: Props) {
   const [c, setC] = useState(initial);
   const [v, setV] = useState({
     locateTicketNumber: initial.locateTicketNumber ?? '', locateCalledOn: initial.locateCalledOn ?? '', permitRequired: initial.permitRequired,
@@ -47,9 +47,10 @@ export default function Checklist({ jobId, initial, canWrite, canOverride }: Pro
         {c.locate.expiresOn && <span>Expires after <strong>{formatDate(c.locate.expiresOn)}</strong></span>}
         <span className="text-galv-500">Wait {c.rules.waitBusinessDays} business days after the call; the ticket lasts {c.rules.validDays} {c.rules.validBasis} days.</span>
       </div>
-      <p className={`text-sm ${c.gate.ok ? 'text-moss-700' : 'text-rust-700'}`} data-testid="building-gate">
-        {c.gate.ok ? (c.gate.message || 'The job may move to building.') : c.gate.message}
-      </p>
+      {(() => {
+        const advice = gateAdvice(c.locate.status, c.overrideReason, jobStatus);
+        return <p className={`text-sm ${advice.ok ? 'text-moss-700' : 'text-rust-700'}`} data-testid="building-gate">{advice.message}</p>;
+      })()}
       <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
         <Field id="locateTicketNumber" label="Locate ticket number" error={fields.locateTicketNumber}>
           {(p) => <input {...p} readOnly={ro} value={v.locateTicketNumber} onChange={(e) => set({ locateTicketNumber: e.target.value })} />}

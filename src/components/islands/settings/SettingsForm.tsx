@@ -1,5 +1,5 @@
 import { useState, type SubmitEvent } from 'react';
-import { settingsInput, TAX_MODES, TAX_MODE_LABELS, type CompanySettings } from '../../../lib/settings/schema';
+import { settingsInput, TAX_MODES, TAX_MODE_LABELS, TIME_ZONES, type CompanySettings } from '../../../lib/settings/schema';
 
 const WEEKDAYS = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat'];
 const INCH_KEYS = ['frostDepthIn', 'permitMaxFrontIn', 'permitMaxSideIn', 'permitMaxBackIn'] as const;
@@ -19,6 +19,7 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
     taxMode: initial.taxMode,
     taxRatePct: String(initial.taxRatePct),
     bidRoundingDollars: String(initial.bidRoundingCents / 100),
+    timezone: initial.timezone,
     ...Object.fromEntries(TEXT_KEYS.map((k) => [k, initial[k] ?? ''])),
     ...Object.fromEntries(INCH_KEYS.map((k) => [k, initial[k] == null ? '' : String(initial[k])])),
     locateWaitBusinessDays: String(initial.locateWaitBusinessDays),
@@ -69,6 +70,14 @@ export default function SettingsForm({ initial }: { initial: CompanySettings }) 
         </Field>
         {input('taxRatePct', 'Sales tax rate (%)', undefined, 'number')}
         {input('bidRoundingDollars', 'Round bid prices to the nearest ($)', 'e.g. 5 rounds $4,321.40 to $4,320.', 'number')}
+        <Field id="timezone" label="Office time zone" error={fields.timezone} hint={'What "today" is for due dates, aging, reminders and locate tickets.'}>
+          {(p) => (
+            <select {...p} value={v.timezone} onChange={set('timezone')}>
+              {!TIME_ZONES.some(([z]) => z === v.timezone) && <option value={v.timezone}>{v.timezone}</option>}
+              {TIME_ZONES.map(([z, label]) => <option key={z} value={z}>{label} ({z})</option>)}
+            </select>
+          )}
+        </Field>
       </section>
       <section>
         <h2 className="mb-2">On invoices and bids</h2>
