@@ -31,16 +31,23 @@ export function formatDate(iso: string | null | undefined): string {
   return dateFormat.format(d);
 }
 
+/** Any zone name the runtime's time-zone database knows (e.g. America/Chicago). */
+export function isTimeZone(name: string): boolean {
+  if (!name) return false;
+  try {
+    new Intl.DateTimeFormat('en-US', { timeZone: name });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 const dateTimeFormats = new Map<string, Intl.DateTimeFormat>();
-/** A moment as the company's office reads it: its own time zone, named ("Dec 2, 2026, 2:05 AM CST"). */
+/** A moment as the company's office reads it: its own time zone, named ("Dec 2, 2026, 2:05 AM CST"); UTC for a zone not known. */
 export function formatDateTime(iso: string | Date, timeZone: string): string {
   let f = dateTimeFormats.get(timeZone);
   if (!f) {
-    try {
-      f = new Intl.DateTimeFormat('en-US', { timeZone, year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short' });
-    } catch {
-      f = new Intl.DateTimeFormat('en-US', { timeZone: 'UTC', year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short' });
-    }
+    f = new Intl.DateTimeFormat('en-US', { timeZone: isTimeZone(timeZone) ? timeZone : 'UTC', year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short' });
     dateTimeFormats.set(timeZone, f);
   }
   return f.format(typeof iso === 'string' ? new Date(iso) : iso);

@@ -2,6 +2,7 @@ import type { CompanySettings } from '../settings/schema.ts';
 import type { SiteRules } from '../takeoff/input.ts';
 import type { PricingSettings } from '../pricing/price.ts';
 import type { LocateRules } from '../checklist/checklist.ts';
+import { isTimeZone } from '../format.ts';
 
 /** What a takeoff, a price and a locate ticket take from the company's settings. */
 export function rulesFrom(s: CompanySettings): { site: SiteRules; pricing: PricingSettings; locate: LocateRules; targetMarginPct: number } {
@@ -22,11 +23,7 @@ const dayFormats = new Map<string, Intl.DateTimeFormat | null>();
 export function todayIn(timeZone: string, now: Date): string {
   let f = dayFormats.get(timeZone);
   if (f === undefined) {
-    try {
-      f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
-    } catch {
-      f = null;
-    }
+    f = isTimeZone(timeZone) ? new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }) : null;
     dayFormats.set(timeZone, f);
   }
   return f ? f.format(now) : now.toISOString().slice(0, 10);

@@ -31,3 +31,12 @@ export function scopeSentence(styleName: string, savedRecipe: unknown, t: Pick<T
   parts.push(gates.length ? gates.join(', ') : 'no gates');
   return `${styleName}: ${parts.join('; ')}.`;
 }
+
+/**
+ * A fence in a few words, to tell two versions of a bid apart: "Wood privacy 6 ft, 64 ft,
+ * 1 gate". Lengths not yet entered (NaN) count as nothing.
+ */
+export function fenceSummary(styleName: string, runLengthsFt: readonly number[], gateCount: number): string {
+  const total = runLengthsFt.reduce((a, b) => a + (Number.isFinite(b) ? b : 0), 0);
+  return `${styleName}, ${ft(total)} ft, ${plural(gateCount, 'gate')}`;
+}

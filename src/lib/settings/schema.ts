@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isTimeZone } from '../format.ts';
 
 export const TAX_MODES = ['none', 'materials', 'all'] as const;
 export const TAX_MODE_LABELS: Record<(typeof TAX_MODES)[number], string> = {
@@ -25,15 +26,6 @@ export const TIME_ZONES: readonly (readonly [string, string])[] = [
   ['America/Halifax', 'Atlantic'],
   ['America/St_Johns', 'Newfoundland'],
 ];
-/** Any zone name the runtime's time-zone database knows (e.g. America/Chicago). */
-export function isTimeZone(name: string): boolean {
-  try {
-    new Intl.DateTimeFormat('en-US', { timeZone: name });
-    return name.length > 0;
-  } catch {
-    return false;
-  }
-}
 
 export const LOCATE_BASES = ['business', 'calendar'] as const;
 

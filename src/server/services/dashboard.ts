@@ -2,7 +2,7 @@ import { db } from '../db.ts';
 import type { Actor } from '../http.ts';
 import { scopeFor } from './jobs.ts';
 import type { JobStatus } from '../../lib/jobs/schema.ts';
-import { locateStatus, LOCATE_STATUS_LABELS, type LocateStatus } from '../../lib/checklist/checklist.ts';
+import { locateStatus, type LocateStatus } from '../../lib/checklist/checklist.ts';
 import { companyRules, companyToday } from './bids.ts';
 
 /** Jobs per status for the dashboard (a crew lead's own jobs only). */
@@ -21,7 +21,7 @@ export interface CrewBoardJob {
   status: JobStatus;
   startDate: string | null;
   site: string;
-  locate: { status: LocateStatus; label: string; digFrom: string | null; expiresOn: string | null };
+  locate: { status: LocateStatus; digFrom: string | null; expiresOn: string | null };
   overridden: boolean;
 }
 
@@ -48,7 +48,7 @@ export async function crewBoard(actor: Actor): Promise<{ today: string; jobs: Cr
     return {
       id: Number(r.id), code: r.code, title: r.title, status: r.status, startDate: r.start_date ?? null,
       site: [r.site_line1, r.site_city].filter(Boolean).join(', '),
-      locate: { ...ls, label: LOCATE_STATUS_LABELS[ls.status] }, overridden: Boolean(r.override_reason),
+      locate: ls, overridden: Boolean(r.override_reason),
     };
   });
   return { today, jobs };

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { computeTakeoff, type Takeoff } from '../../../src/lib/takeoff/takeoff';
 import { recipeFor, ratesFor } from '../../../src/lib/takeoff/defaults';
 import { layoutInput, NO_SITE_RULES } from '../../../src/lib/takeoff/input';
-import { scopeSentence } from '../../../src/lib/bids/scope';
+import { fenceSummary, scopeSentence } from '../../../src/lib/bids/scope';
 
 const take = (kind: string, layout: unknown): Takeoff => {
   const t = computeTakeoff(layoutInput.parse(layout), recipeFor(kind), ratesFor(kind), NO_SITE_RULES);
@@ -37,5 +37,13 @@ describe('the printed bid says what the style builds', () => {
   it('falls back on the takeoff when the saved recipe no longer reads', () => {
     const t = take('split_rail', { runs: [{ lengthFt: 50, heightIn: 48 }] });
     expect(scopeSentence('Old style', { nope: true }, t)).toMatch(/^Old style: 50 ft of fence; 6 posts set in tamped earth, without concrete, on a gravel base; /);
+  });
+});
+
+describe('a fence in a few words', () => {
+  it('adds the runs, counts the gates, and counts a length not yet entered as nothing', () => {
+    expect(fenceSummary('Wood privacy 6 ft', [40, 24], 1)).toBe('Wood privacy 6 ft, 64 ft, 1 gate');
+    expect(fenceSummary('Chain link 4 ft', [80.25, Number.NaN], 2)).toBe('Chain link 4 ft, 80.3 ft, 2 gates');
+    expect(fenceSummary('Split rail 3-rail', [], 0)).toBe('Split rail 3-rail, 0 ft, 0 gates');
   });
 });

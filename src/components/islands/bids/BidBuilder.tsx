@@ -13,6 +13,7 @@ import { formatDate, formatMoney, formatPct } from '../../../lib/format';
 import { fieldErrors } from '../../../lib/errors';
 import { api } from '../ui/api';
 import PlanSketch from './PlanSketch';
+import { fenceSummary } from '../../../lib/bids/scope';
 
 interface StyleOption { id: number; name: string; kind: string; recipe: Recipe }
 interface Props {
@@ -91,8 +92,7 @@ export default function BidBuilder(p: Props) {
 
   // The scope carried over from the version this one started from is free text: once the
   // fence itself changes (style, length or gates), it may describe a different fence.
-  const fenceOf = (sid: number, lengths: number[], gateCount: number) =>
-    `${p.styles.find((x) => x.id === sid)?.name ?? 'another style'}, ${q(lengths.reduce((a, b) => a + (Number.isFinite(b) ? b : 0), 0), 1)} ft, ${gateCount} gate${gateCount === 1 ? '' : 's'}`;
+  const fenceOf = (sid: number, lengths: number[], gateCount: number) => fenceSummary(p.styles.find((x) => x.id === sid)?.name ?? 'another style', lengths, gateCount);
   const startFence = start ? fenceOf(start.styleId, start.runs.map((r) => r.lengthFt), start.gates.length) : null;
   const nowFence = fenceOf(styleId, raw.runs.map((r) => r.lengthFt), gates.length);
   const scopeStale = startFence !== null && scope.trim() !== '' && scope === start?.scope && startFence !== nowFence;

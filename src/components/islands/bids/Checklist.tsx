@@ -4,12 +4,12 @@ import { checklistInput, gateAdvice } from '../../../lib/checklist/checklist';
 import { formatDate } from '../../../lib/format';
 import { api } from '../ui/api';
 import { Field, FormError } from '../ui/Field';
+import { LocatePill } from '../ui/LocatePill';
 import { validate } from '../ui/form';
 
 type State = Awaited<ReturnType<typeof checklistFor>>;
 interface Props { jobId: number; jobStatus: string; initial: State; canWrite: boolean; canOverride: boolean }
 
-const TONE = { missing: 'bg-rust-100 text-rust-700', expired: 'bg-rust-100 text-rust-700', waiting: 'bg-timber-100 text-timber-800', ready: 'bg-moss-100 text-moss-700' } as const;
 
 /** The pre-dig checklist: the locate ticket with its dates, permit, HOA and property line. */
 export default function Checklist({ jobId, jobStatus, initial, canWrite, canOverride }: Props) {
@@ -38,19 +38,17 @@ export default function Checklist({ jobId, jobStatus, initial, canWrite, canOver
   }
 
   const ro = !canWrite;
+  const advice = gateAdvice(c.locate.status, c.overrideReason, jobStatus);
   return (
     <div className="space-y-4" data-testid="checklist">
       <FormError message={error} />
       <div className="flex flex-wrap items-center gap-3 text-sm">
-        <span className={`pill ${TONE[c.locate.status]}`} data-testid="locate-status">{c.locate.label}</span>
+        <LocatePill status={c.locate.status} />
         {c.locate.digFrom && <span>Dig from <strong>{formatDate(c.locate.digFrom)}</strong></span>}
         {c.locate.expiresOn && <span>Expires after <strong>{formatDate(c.locate.expiresOn)}</strong></span>}
         <span className="text-galv-500">Wait {c.rules.waitBusinessDays} business days after the call; the ticket lasts {c.rules.validDays} {c.rules.validBasis} days.</span>
       </div>
-      {(() => {
-        const advice = gateAdvice(c.locate.status, c.overrideReason, jobStatus);
-        return <p className={`text-sm ${advice.ok ? 'text-moss-700' : 'text-rust-700'}`} data-testid="building-gate">{advice.message}</p>;
-      })()}
+      <p className={`text-sm ${advice.ok ? 'text-moss-700' : 'text-rust-700'}`} data-testid="building-gate">{advice.message}</p>
       <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
         <Field id="locateTicketNumber" label="Locate ticket number" error={fields.locateTicketNumber}>
           {(p) => <input {...p} readOnly={ro} value={v.locateTicketNumber} onChange={(e) => set({ locateTicketNumber: e.target.value })} />}
