@@ -48,7 +48,7 @@ describe('signing in as each role', () => {
     expect(await rows.count()).toBe((await count('Won')) + (await count('Building')));
     expect(await rows.count()).toBeGreaterThan(0);
     for (const pill of await board.getByTestId('crew-board-locate').allInnerTexts()) {
-      expect(pill).toMatch(/^(No locate ticket on file|Ticket on file; wait for the marks|Ticket on file and current|Ticket expired; call in a new one)/);
+      expect(pill).toMatch(/^(No locate ticket on file|Ticket on file; wait for the marks|Ticket on file and current|Ticket expired)/);
     }
     const first = rows.first();
     const jobHref = await first.getByRole('link').first().getAttribute('href');

@@ -24,7 +24,7 @@ export const LOCATE_STATUS_LABELS: Record<LocateStatus, string> = {
   missing: 'No locate ticket on file',
   waiting: 'Ticket on file; wait for the marks',
   ready: 'Ticket on file and current',
-  expired: 'Ticket expired; call in a new one',
+  expired: 'Ticket expired',
 };
 
 export function locateStatus(ticketNumber: string | null, calledOn: string | null, today: string, rules: LocateRules): { status: LocateStatus; digFrom: string | null; expiresOn: string | null } {
