@@ -1,12 +1,18 @@
 import { z } from 'zod';
-import { EQUIPMENT_KINDS, type EquipmentKind, type RentalPlan } from './rates.ts';
+import { EQUIPMENT_KINDS, MAX_RENTAL_DAYS, MAX_RENTAL_HOURS, RENTAL_YEARS, rentalHours, wallClockMs, type EquipmentKind, type RentalPlan } from './rates.ts';
 import { idField, idList, nonNegative, optionalCents, optionalDate, optionalId, optionalText, page, pageSize } from '../costs/fields.ts';
 
+const WALL_CLOCK = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/;
+const LIKE = 'Use a date and time such as 2026-05-14T07:30.';
+
+/** A real calendar date and time of day, as the crew's phone sends it; the years bound every rental's length and cost. */
 const dateTime = z
-  .string()
+  .string({ message: LIKE })
+  .max(40, LIKE)
   .trim()
   .transform((v) => v.replace(' ', 'T').slice(0, 16))
-  .refine((v) => /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/.test(v) && !Number.isNaN(Date.parse(`${v}:00Z`)), 'Use a date and time such as 2026-05-14T07:30.');
+  .refine((v) => WALL_CLOCK.test(v), LIKE)
+  .refine((v) => !WALL_CLOCK.test(v) || Number.isFinite(wallClockMs(v)), `Use a real date and time between the years ${RENTAL_YEARS.min} and ${RENTAL_YEARS.max}, such as 2026-05-14T07:30.`);
 
 const rate = (label: string) => nonNegative(optionalCents(label), label);
 
@@ -26,7 +32,11 @@ export const rentalInput = z
     fuelCents: rate('fuel'),
     notes: optionalText(500),
   })
-  .refine((v) => v.endAt > v.startAt, { path: ['endAt'], message: 'The return must be after the pick-up.' });
+  .refine((v) => v.endAt > v.startAt, { path: ['endAt'], message: 'The return must be after the pick-up.' })
+  .refine((v) => (rentalHours(v.startAt, v.endAt) ?? 0) <= MAX_RENTAL_HOURS, {
+    path: ['endAt'],
+    message: `A rental is at most ${MAX_RENTAL_DAYS} days from pick-up to return; enter a longer one as separate rentals.`,
+  });
 export type RentalInput = z.output<typeof rentalInput>;
 
 export const rentalListQuery = z.strictObject({

@@ -1,6 +1,6 @@
 import type { FieldErrors } from '../errors.ts';
 import { actualLumberIn, boardFeet, cuInToCuFt, cylinderCuIn, formatFeetInches, ftToIn, roundTo } from '../units.ts';
-import { packStock } from './packing.ts';
+import { packStockCounts, type PieceCount } from './packing.ts';
 import type { PostSpec, Recipe, WasteKey } from './recipe.ts';
 import type { Rates, LabourTask } from './rates.ts';
 import { LABOUR_TASKS } from './rates.ts';
@@ -178,7 +178,8 @@ function railsFor(recipe: Recipe, heightIn: number): number {
   return (rows.find((r) => heightIn <= r.maxHeightIn + EPS) ?? rows[rows.length - 1])?.count ?? 0;
 }
 
-interface PostNode { kind: PostKind; heightIn: number; runIndex: number }
+/** Posts at one station, or a run's line posts counted together (`count` of them). */
+interface PostNode { kind: PostKind; heightIn: number; runIndex: number; count: number }
 
 /**
  * The takeoff: from runs, gates and a style's recipe to bays, posts, holes, concrete,
@@ -245,7 +246,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
       if (isStart && run.connectsToPrevious && prevEnd) joint(prevEnd, run.heightIn, gateEdge);
       else if (isEnd && layout.closed && i === runs.length - 1 && firstStart) joint(firstStart, run.heightIn, gateEdge);
       else {
-        const node: PostNode = { kind: gateEdge ? 'gate' : 'end', heightIn: run.heightIn, runIndex: i };
+        const node: PostNode = { kind: gateEdge ? 'gate' : 'end', heightIn: run.heightIn, runIndex: i, count: 1 };
         nodes.push(node);
         posts++;
         if (isStart && i === 0) firstStart = node;
@@ -267,7 +268,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
         }
       }
     });
-    for (let l = 0; l < lineHere; l++) nodes.push({ kind: 'line', heightIn: run.heightIn, runIndex: i });
+    if (lineHere) nodes.push({ kind: 'line', heightIn: run.heightIn, runIndex: i, count: lineHere });
     posts += lineHere;
     const gateFt = gates.reduce((a, g) => a + (g.toFt - g.fromFt), 0);
     runResults.push({
@@ -285,7 +286,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     const spec = specFor(n.kind);
     const key = `${n.kind}|${spec.label}|${n.heightIn}`;
     const g = groups.get(key);
-    if (g) { g.count++; continue; }
+    if (g) { g.count += n.count; continue; }
     const { embedmentIn, lengthIn } = postLengthFor(recipe, n.heightIn, site);
     const holeDiameterIn = holeDiameterFor(recipe, spec);
     const area = Math.PI * (holeDiameterIn / 2) ** 2 - crossSectionSqIn(spec);
@@ -299,7 +300,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     // Below: the post stands on the gravel and the hole is deeper by the gravel.
     const holeDepthIn = within ? embedmentIn : embedmentIn + gravelIn;
     groups.set(key, {
-      kind: n.kind, spec: spec.label, heightIn: n.heightIn, count: 1, lengthIn: r4(lengthIn), embedmentIn: r4(embedmentIn), holeDiameterIn,
+      kind: n.kind, spec: spec.label, heightIn: n.heightIn, count: n.count, lengthIn: r4(lengthIn), embedmentIn: r4(embedmentIn), holeDiameterIn,
       holeDepthIn: r4(holeDepthIn), fillDepthIn: r4(holeDepthIn - gravelIn),
       // Concrete fills the hole above the gravel, around the post.
       concreteCuInEach: area * (holeDepthIn - gravelIn),
@@ -339,12 +340,13 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
   };
 
   /** Packs cut pieces into a spec's stock lengths and adds the boards to the buy list. */
-  const packInto = (group: MaterialGroup, label: string, stock: { lengthFt: number; sku: string }[], nominal: { thicknessIn: number; widthIn: number } | null, pieces: number[], wasteKey: WasteKey, fieldFor: () => string): boolean => {
+  const packInto = (group: MaterialGroup, label: string, stock: { lengthFt: number; sku: string }[], nominal: { thicknessIn: number; widthIn: number } | null, pieces: PieceCount[], wasteKey: WasteKey, fieldFor: () => string): boolean => {
+    pieces = pieces.filter((p) => p.count > 0);
     if (!pieces.length) return true;
-    const packing = packStock(pieces, stock.map((s) => ftToIn(s.lengthFt)), recipe.kerfIn);
+    const packing = packStockCounts(pieces, stock.map((s) => ftToIn(s.lengthFt)), recipe.kerfIn);
     if (packing.tooLong.length) {
       const longest = Math.max(...stock.map((s) => s.lengthFt));
-      fields[fieldFor()] = `Needs ${label} ${formatFeetInches(Math.max(...packing.tooLong))} long; the longest stock is ${longest} ft.`;
+      fields[fieldFor()] = `Needs ${label} ${formatFeetInches(Math.max(...packing.tooLong.map((p) => p.lengthIn)))} long; the longest stock is ${longest} ft.`;
       return false;
     }
     const patterns = new Map<string, CutBoard>();
@@ -352,20 +354,21 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
       const st = stock.find((s) => Math.abs(ftToIn(s.lengthFt) - b.stockIn) < EPS)!;
       const key = `${st.sku}|${b.pieces.map((p) => r4(p)).join(',')}`;
       const pat = patterns.get(key);
-      if (pat) pat.count++;
-      else patterns.set(key, { group, label, sku: st.sku, stockFt: st.lengthFt, pieces: b.pieces.map(r4), offcutIn: r4(b.offcutIn), count: 1 });
+      if (pat) pat.count += b.count;
+      else patterns.set(key, { group, label, sku: st.sku, stockFt: st.lengthFt, pieces: b.pieces.map(r4), offcutIn: r4(b.offcutIn), count: b.count });
     }
     for (const pat of patterns.values()) cutList.push(pat);
     // Waste on cut stock is spare pieces (the longest), packed with the rest: 5 % of nine
     // posts is one spare post, not a spare board for each stock length.
-    const spares = ceilQty((pieces.length * recipe.wastePct[wasteKey]) / 100);
-    const longestPiece = Math.max(...pieces);
-    const withSpares = packStock([...pieces, ...Array.from({ length: spares }, () => longestPiece)], stock.map((s) => ftToIn(s.lengthFt)), recipe.kerfIn);
-    const countBySku = (boards: { stockIn: number }[]) => {
+    const pieceCount = pieces.reduce((a, p) => a + p.count, 0);
+    const spares = ceilQty((pieceCount * recipe.wastePct[wasteKey]) / 100);
+    const longestPiece = Math.max(...pieces.map((p) => p.lengthIn));
+    const withSpares = packStockCounts([...pieces, { lengthIn: longestPiece, count: spares }], stock.map((s) => ftToIn(s.lengthFt)), recipe.kerfIn);
+    const countBySku = (boards: { stockIn: number; count: number }[]) => {
       const m = new Map<string, number>();
       for (const b of boards) {
         const st = stock.find((s) => Math.abs(ftToIn(s.lengthFt) - b.stockIn) < EPS)!;
-        m.set(st.sku, (m.get(st.sku) ?? 0) + 1);
+        m.set(st.sku, (m.get(st.sku) ?? 0) + b.count);
       }
       return m;
     };
@@ -386,11 +389,11 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
   };
 
   // Posts, packed per spec.
-  const bySpec = new Map<PostSpec, { pieces: number[]; runIndex: number }>();
+  const bySpec = new Map<PostSpec, { pieces: PieceCount[]; runIndex: number }>();
   for (const g of postGroups) {
     const spec = specFor(g.kind);
     const entry = bySpec.get(spec) ?? { pieces: [], runIndex: runResults.find((r) => r.heightIn === g.heightIn)?.index ?? 0 };
-    for (let k = 0; k < g.count; k++) entry.pieces.push(g.lengthIn);
+    entry.pieces.push({ lengthIn: g.lengthIn, count: g.count });
     bySpec.set(spec, entry);
   }
   for (const [spec, { pieces }] of bySpec) {
@@ -404,11 +407,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
   if (recipe.rails) {
     const rails = recipe.rails;
     if (rails.mode === 'per_bay') {
-      const pieces: number[] = [];
-      for (const { run, seg } of fenceSegments) {
-        const n = railsFor(recipe, runs[run].heightIn) * seg.bays;
-        for (let k = 0; k < n; k++) pieces.push(ftToIn(seg.bayFt));
-      }
+      const pieces = fenceSegments.map(({ run, seg }) => ({ lengthIn: ftToIn(seg.bayFt), count: railsFor(recipe, runs[run].heightIn) * seg.bays }));
       packInto('rails', rails.label, rails.stock, rails.nominal, pieces, 'rails', () => 'recipe.rails.stock');
     } else if (rails.mode === 'each') {
       const n = fenceSegments.reduce((a, { run, seg }) => a + railsFor(recipe, runs[run].heightIn) * seg.bays, 0);
@@ -423,7 +422,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     }
   }
   if (recipe.cap) {
-    const pieces = fenceSegments.flatMap(({ seg }) => Array.from({ length: seg.bays }, () => ftToIn(seg.bayFt)));
+    const pieces = fenceSegments.map(({ seg }) => ({ lengthIn: ftToIn(seg.bayFt), count: seg.bays }));
     packInto('cap', recipe.cap.label, recipe.cap.stock, recipe.cap.nominal, pieces, 'cap', () => 'recipe.cap.stock');
   }
 
@@ -436,11 +435,11 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     if (tall) warnings.push(`${tall.label}: ${tall.heightIn} in is taller than the ${infill.lengthFt} ft ${infill.label}.`);
   } else if (infill.kind === 'panels') {
     if (infill.cuttable) {
-      const pieces = fenceSegments.flatMap(({ seg }) => Array.from({ length: seg.bays }, () => ftToIn(seg.bayFt)));
-      const packing = packStock(pieces, [ftToIn(infill.widthFt)], 0);
+      const pieces = fenceSegments.map(({ seg }) => ({ lengthIn: ftToIn(seg.bayFt), count: seg.bays }));
+      const packing = packStockCounts(pieces, [ftToIn(infill.widthFt)], 0);
       const tooWide = packing.tooLong.length > 0;
       if (tooWide) warnings.push(`Some bays are wider than the ${infill.widthFt} ft ${infill.label}; they take two pieces.`);
-      const n = packing.boards.length + packing.tooLong.reduce((a, p) => a + Math.ceil(p / ftToIn(infill.widthFt)), 0);
+      const n = packing.boards.reduce((a, b) => a + b.count, 0) + packing.tooLong.reduce((a, p) => a + p.count * Math.ceil(p.lengthIn / ftToIn(infill.widthFt)), 0);
       if (n) add({ sku: infill.sku, label: infill.label, group: 'infill', unit: 'each', takeoffQty: n, wasteKey: 'infill', note: 'cut to the bays' });
     } else {
       if (totalBays) add({ sku: infill.sku, label: infill.label, group: 'infill', unit: 'each', takeoffQty: totalBays, wasteKey: 'infill' });
@@ -469,7 +468,7 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
       add({ sku: roll.sku, label: roll.label, group: 'infill', unit: 'roll', takeoffQty: ft / infill.rollLengthFt, wasteKey: 'infill', note: `${roundTo(ft, 2)} ft of fence, ${roll.heightIn} in fabric` });
   }
 
-  const holes = nodes.length;
+  const holes = nodes.reduce((a, n) => a + n.count, 0);
   let concrete: Takeoff['concrete'] = null;
   if (recipe.hole.concrete) {
     const c = recipe.hole.concrete;
@@ -488,8 +487,8 @@ export function computeTakeoff(layout: LayoutInput, recipe: Recipe, rates: Rates
     if (holes) add({ sku: gv.sku, label: gv.label, group: 'gravel', unit: 'bag', takeoffQty: cuFt / gv.bagCuFt, wasteKey: 'gravel', buyQty: bags, note: `${roundTo(cuFt, 2)} ft³` });
   }
 
-  const postCount = (k: PostKind) => nodes.filter((n) => n.kind === k).length;
-  const posts = { end: postCount('end'), corner: postCount('corner'), line: postCount('line'), gate: postCount('gate'), total: nodes.length };
+  const postCount = (k: PostKind) => nodes.reduce((a, n) => a + (n.kind === k ? n.count : 0), 0);
+  const posts = { end: postCount('end'), corner: postCount('corner'), line: postCount('line'), gate: postCount('gate'), total: holes };
   const single = layout.gates.filter((g) => g.kind === 'single').length;
   const double = layout.gates.filter((g) => g.kind === 'double').length;
   const gates = { single, double, leaves: single + 2 * double };

@@ -367,3 +367,43 @@ describe('actual dimensions where volumes need them', () => {
     expect(line.concreteCuInEach).toBeCloseTo((Math.PI * (d / 2) ** 2 - 3.5 * 5.5) * line.embedmentIn, 3);
   });
 });
+
+describe('the largest takeoff the API accepts', () => {
+  // The API's limits (src/lib/takeoff/input.ts): 60 runs of at most 2,000 ft, 30 gates. Every
+  // run a different length and height and every gate somewhere else gives the most distinct
+  // post, rail and cap lengths, which is what the packing's work follows.
+  const layout = layoutInput.parse({
+    runs: Array.from({ length: 60 }, (_, i) => ({ lengthFt: 2000 - i * 0.37, heightIn: 36 + (i % 15), connectsToPrevious: i > 0 })),
+    gates: Array.from({ length: 30 }, (_, i) => ({ runIndex: 2 * i, widthFt: 4 + (i % 2) * 0.5, offsetFt: 100 + i * 13.7 })),
+    closed: true,
+  });
+  // The most pieces an inline recipe can ask for: posts every 2 ft, eight rails a bay, a cap.
+  const wire = recipeFor('wire_panel');
+  const most = recipeSchema.parse({
+    ...wire, heightMinIn: 12, heightMaxIn: 144, spacingFt: 2, minBayFt: 0.5,
+    rails: { ...wire.rails, byHeight: [{ maxHeightIn: 144, count: 8 }] },
+  });
+  const pieces = (t: Takeoff, group: string) => t.cutList.filter((c) => c.group === group).reduce((a, c) => a + c.count * c.pieces.length, 0);
+
+  it.each([['the wire-panel style', wire], ['an inline recipe at its limits', most]] as const)('completes with every piece cut once: %s', (_, recipe) => {
+    const t = ok(computeTakeoff(layout, recipe, ratesFor('wire_panel'), NO_SITE_RULES));
+    const railsPerBay = recipe.rails!.byHeight[0].count;
+    expect(pieces(t, 'posts')).toBe(t.posts.total);
+    expect(pieces(t, 'rails')).toBe(railsPerBay * t.bays);
+    expect(pieces(t, 'cap')).toBe(t.bays);
+    // One closed loop: as many posts as bays plus one for each side of each gate opening.
+    expect(t.posts.total).toBe(t.bays + 30);
+    // Boards cut alike are listed once with their count: the cut list grows with the distinct
+    // lengths (at most four ways of cutting per length), not with the tens of thousands of pieces.
+    const postLengths = new Set(t.postGroups.map((g) => g.lengthIn)).size;
+    const bayLengths = new Set(t.runs.flatMap((r) => r.segments.map((s) => s.bayFt))).size;
+    const entries = (group: string) => t.cutList.filter((c) => c.group === group).length;
+    expect(entries('posts')).toBeLessThanOrEqual(4 * postLengths);
+    expect(entries('rails')).toBeLessThanOrEqual(4 * bayLengths);
+    expect(entries('cap')).toBeLessThanOrEqual(4 * bayLengths);
+    for (const group of ['posts', 'rails', 'cap'] as const) {
+      const boards = t.cutList.filter((c) => c.group === group).reduce((a, c) => a + c.count, 0);
+      expect(buy(t, group)).toBeGreaterThanOrEqual(boards);
+    }
+  }, 30_000);
+});
