@@ -25,7 +25,7 @@ export async function up(knex: Knex): Promise<void> {
     /** why the processor refused the request or the refund failed */
     t.string('failure', 500);
     timestamps(t, knex);
-    t.unique(['organization_id', 'payment_id', 'request_key'], 'stripe_refunds_request_key_uq');
+    t.unique(['organization_id', 'payment_id', 'request_key'], { indexName: 'stripe_refunds_request_key_uq' });
     t.index(['organization_id', 'invoice_id'], 'stripe_refunds_invoice_idx');
   });
 }
