@@ -26,6 +26,8 @@ export const ERROR_STATUS = {
   DEPOSIT_OVER_CAP: 422,
   OVERPAYMENT: 422,
   PAYMENT_PROVIDER: 502,
+  /** The card processor made a refund that could not be saved yet; its webhook records it. */
+  REFUND_UNRECORDED: 503,
   LOCATE_REQUIRED: 422,
   RATE_LIMITED: 429,
   DB_DOWN: 503,

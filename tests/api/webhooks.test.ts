@@ -6,7 +6,7 @@ import { makeCompany, type TestCompany } from '../setup/factory';
 import { closeTestDb, testDb } from '../setup/db';
 import { waitForMail } from '../setup/mail';
 import { stack } from '../setup/stack';
-import { billableJob, draft, fakeEvents, getInvoice, hostedPage, issue, payLink, postWebhook, send, waitFor } from '../setup/invoices';
+import { billableJob, cardLife, draft, fakeEvents, getInvoice, hostedPage, issue, payLink, postWebhook, send, stripeOutside, waitFor, webhookEndpoint, type FakeEvent } from '../setup/invoices';
 
 let co: TestCompany;
 beforeAll(async () => {
@@ -98,15 +98,13 @@ describe('paying online', () => {
   it('records a payment once when the payment intent event comes before the session event', async () => {
     const { job } = await billableJob(co, 500_000);
     const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: 50_000 })).id);
-    const meta = { invoice_id: String(inv.id), organization_id: co.id };
-    const intent = `pi_test_ooo${inv.id}`;
-    const created = Math.floor(Date.now() / 1000);
-    const pi = JSON.stringify({ id: `evt_test_pi_${inv.id}`, object: 'event', type: 'payment_intent.succeeded', created, data: { object: { id: intent, object: 'payment_intent', amount: inv.totalCents, amount_received: inv.totalCents, currency: 'usd', status: 'succeeded', metadata: meta } } });
-    const cs = JSON.stringify({ id: `evt_test_cs_${inv.id}`, object: 'event', type: 'checkout.session.completed', created, data: { object: { id: `cs_test_ooo${inv.id}`, object: 'checkout.session', amount_total: inv.totalCents, currency: 'usd', payment_status: 'paid', payment_intent: intent, metadata: meta } } });
+    const life = await offline(() => cardLife(co.id, inv, { decline: false }));
+    const pi = byType(life.events, 'payment_intent.succeeded');
+    const cs = byType(life.events, 'checkout.session.completed');
     const c = new Client();
-    expect((await postWebhook(c, pi)).status).toBe(200);
-    expect((await postWebhook(c, cs)).status).toBe(200);
-    expect((await postWebhook(c, pi)).status).toBe(200);
+    expect((await postWebhook(c, pi.payload)).status).toBe(200);
+    expect((await postWebhook(c, cs.payload)).status).toBe(200);
+    expect((await postWebhook(c, pi.payload)).status).toBe(200);
     const after = await getInvoice(co.owner, inv.id);
     expect(after.payments).toHaveLength(1);
     expect(after.status).toBe('paid');
@@ -115,13 +113,9 @@ describe('paying online', () => {
   it('records a payment once when its two events arrive at the same moment, several times over', async () => {
     const { job } = await billableJob(co, 400_000);
     const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: 40_000 })).id);
-    const meta = { invoice_id: String(inv.id), organization_id: co.id };
-    const intent = `pi_test_race${inv.id}`;
-    const created = Math.floor(Date.now() / 1000);
-    const events = Array.from({ length: 3 }, (_, k) => [
-      JSON.stringify({ id: `evt_test_race_pi_${inv.id}_${k}`, object: 'event', type: 'payment_intent.succeeded', created, data: { object: { id: intent, object: 'payment_intent', amount: inv.totalCents, amount_received: inv.totalCents, currency: 'usd', status: 'succeeded', metadata: meta } } }),
-      JSON.stringify({ id: `evt_test_race_cs_${inv.id}_${k}`, object: 'event', type: 'checkout.session.completed', created, data: { object: { id: `cs_test_race${inv.id}`, object: 'checkout.session', amount_total: inv.totalCents, currency: 'usd', payment_status: 'paid', payment_intent: intent, metadata: meta } } }),
-    ]).flat();
+    const life = await offline(() => cardLife(co.id, inv, { decline: false }));
+    const pair = [byType(life.events, 'payment_intent.succeeded').payload, byType(life.events, 'checkout.session.completed').payload];
+    const events = [...pair, ...pair, ...pair];
     const results = await Promise.all(events.map((e) => postWebhook(new Client(), e)));
     expect(results.map((r) => r.status)).toEqual(events.map(() => 200));
     const after = await getInvoice(co.owner, inv.id);
@@ -147,17 +141,235 @@ describe('paying online', () => {
     const pay = paid.payments[0];
     expect((await co.bookkeeper.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 10_000 })).status).toBe(403);
     const r = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 10_000, reason: 'Gate hardware not fitted' });
-    expect(r.status).toBe(200);
+    expect(r.status, r.text).toBe(200);
     expect(r.body.status).toBe('partly_paid');
     expect(r.body.balanceCents).toBe(10_000);
-    // The stand-in's charge.refunded event arrives too; it finds the refund already recorded.
-    await waitFor(fakeEvents, (evs) => evs.some((e) => e.type === 'charge.refunded' && e.payload.includes(pay.stripePaymentIntent) && e.deliveries.some((d) => d.status === 200)));
+    // Stripe's refund.created and charge.refunded arrive too; they find the refund already recorded.
+    const events = await waitFor(() => fakeEvents(pay.stripePaymentIntent), (evs) => ['refund.created', 'charge.refunded'].every((t) => evs.some((e) => e.type === t && e.deliveries.some((d) => d.status === 200))));
+    expect(events.filter((e) => e.type === 'charge.refunded').every((e) => !('refunds' in JSON.parse(e.payload).data.object))).toBe(true);
     const after = await getInvoice(co.owner, inv.id);
     expect(after.refunds).toHaveLength(1);
+    expect(after.refunds[0]).toMatchObject({ amountCents: 10_000, reason: 'Gate hardware not fitted' });
     expect(after.refunds[0].stripeRefund).toMatch(/^re_test_/);
     expect(after.paidCents).toBe(paid.paidCents - 10_000);
+    const row = await testDb()('stripe_refunds').where({ organization_id: co.id, payment_id: pay.id }).first();
+    expect(row).toMatchObject({ status: 'succeeded', stripe_refund: after.refunds[0].stripeRefund, requested_by: expect.any(String) });
     const tooMuch = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: paid.paidCents });
     expect(tooMuch.status).toBe(422);
+  });
+});
+
+/** Runs `fn` with the app's webhook endpoint at the stand-in off, so its events wait for the test to deliver them. */
+async function offline<T>(fn: () => Promise<T>): Promise<T> {
+  await webhookEndpoint(true);
+  try {
+    return await fn();
+  } finally {
+    await webhookEndpoint(false);
+  }
+}
+const byType = (events: FakeEvent[], type: string) => {
+  const e = events.find((x) => x.type === type);
+  if (!e) throw new Error(`no ${type} among ${events.map((x) => x.type).join(', ')}`);
+  return e;
+};
+/**
+ * Makes the record step fail: a trigger refuses refunds rows for this payment (a fault the
+ * app cannot tell from a database that fails mid-request). Returns the undo.
+ */
+async function refuseRefundRows(paymentId: number): Promise<() => Promise<void>> {
+  const name = `refuse_refunds_${Number(paymentId)}`;
+  await testDb().raw(`CREATE TRIGGER ${name} BEFORE INSERT ON refunds FOR EACH ROW BEGIN IF NEW.payment_id = ${Number(paymentId)} THEN SIGNAL SQLSTATE '45000' SET MESSAGE_TEXT = 'refused by test'; END IF; END`);
+  return async () => { await testDb().raw(`DROP TRIGGER IF EXISTS ${name}`); };
+}
+const refundRows = (invoiceId: number) => testDb()('refunds').where({ organization_id: co.id, invoice_id: invoiceId }).orderBy('id');
+
+/** An issued invoice paid by card at the stand-in, its payment recorded from the events. */
+async function paidInvoice(cents: number, card?: string) {
+  const { job } = await billableJob(co, cents * 10);
+  const inv = await issue(co.owner, (await draft(co.owner, { jobId: job.id, kind: 'deposit', requestedCents: cents })).id);
+  const life = await offline(() => cardLife(co.id, inv, { decline: false, card }));
+  for (const e of life.events) expect((await postWebhook(new Client(), e.payload)).status).toBe(200);
+  const paid = await getInvoice(co.owner, inv.id);
+  expect(paid.status).toBe('paid');
+  return { inv: paid, intent: life.intent, pay: paid.payments[0] };
+}
+
+describe('refunds', () => {
+  it('records a refund made outside Tallypost from its refund.created event alone, once', async () => {
+    const { inv, intent } = await paidInvoice(80_000);
+    const T = inv.totalCents;
+    const made = await offline(() => stripeOutside().refunds.create({ payment_intent: intent, amount: 12_500 }));
+    const events = await fakeEvents(made.id);
+    const created = byType(events, 'refund.created');
+    // Only refund.created: charge.refunded is held back.
+    expect((await postWebhook(new Client(), created.payload)).status).toBe(200);
+    let after = await getInvoice(co.owner, inv.id);
+    expect(after.refunds).toHaveLength(1);
+    expect(after.refunds[0]).toMatchObject({ amountCents: 12_500, stripeRefund: made.id, reason: 'Refunded at the card processor' });
+    expect(after).toMatchObject({ status: 'partly_paid', paidCents: T - 12_500, balanceCents: 12_500 });
+    // Replayed, reordered, and with charge.refunded (which lists the charge's refunds through the SDK): nothing more.
+    const all = await fakeEvents(intent);
+    const refundEvents = all.filter((e) => e.type === 'charge.refunded' || e.type.startsWith('refund.'));
+    expect(refundEvents.map((e) => e.type).sort()).toEqual(['charge.refunded', 'refund.created']);
+    const replays = [...refundEvents, ...refundEvents.reverse(), created, created];
+    const results = await Promise.all(replays.map((e) => postWebhook(new Client(), e.payload)));
+    expect(results.map((r) => r.status)).toEqual(replays.map(() => 200));
+    after = await getInvoice(co.owner, inv.id);
+    expect(after.refunds).toHaveLength(1);
+    expect(after.paidCents).toBe(T - 12_500);
+    expect(await testDb()('stripe_refunds').where({ organization_id: co.id, stripe_refund: made.id })).toMatchObject([{ status: 'succeeded', requested_by: null }]);
+  });
+
+  it('records refunds from charge.refunded alone by listing the charge\'s refunds through the SDK', async () => {
+    const { inv, intent } = await paidInvoice(90_000);
+    const T = inv.totalCents;
+    const sdk = stripeOutside();
+    const [a, b] = await offline(async () => [await sdk.refunds.create({ payment_intent: intent, amount: 1_000 }), await sdk.refunds.create({ payment_intent: intent, amount: 2_000 })]);
+    const charged = (await fakeEvents(intent)).filter((e) => e.type === 'charge.refunded');
+    expect(charged).toHaveLength(2);
+    // The later charge.refunded alone: both refunds are found by listing.
+    expect((await postWebhook(new Client(), charged[1].payload)).status).toBe(200);
+    const after = await getInvoice(co.owner, inv.id);
+    expect(after.refunds.map((r: { stripeRefund: string }) => r.stripeRefund).sort()).toEqual([a.id, b.id].sort());
+    expect(after.paidCents).toBe(T - 3_000);
+    for (const e of await fakeEvents(intent)) expect((await postWebhook(new Client(), e.payload)).status).toBe(200);
+    expect((await getInvoice(co.owner, inv.id)).refunds).toHaveLength(2);
+  });
+
+  it('puts back a refund that fails at the processor (Stripe\'s test card 4000 0000 0000 5126), once', async () => {
+    const { inv, intent, pay } = await paidInvoice(50_000, '4000000000005126');
+    const T = inv.totalCents;
+    const r = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 20_000, reason: 'Posts set short', requestKey: `fail-${inv.id}-aaaaaaaaaaaa` });
+    expect(r.status, r.text).toBe(200);
+    expect(r.body).toMatchObject({ status: 'partly_paid', paidCents: T - 20_000 });
+    // A moment later Stripe reports it failed: refund.updated, refund.failed.
+    const back = await waitFor(() => getInvoice(co.owner, inv.id), (i) => i.status === 'paid');
+    expect(back.paidCents).toBe(T);
+    expect(back.payments[0].refundedCents).toBe(0);
+    const rows = await refundRows(inv.id);
+    expect(rows).toHaveLength(1);
+    expect(Number(rows[0].amount_cents)).toBe(0);
+    expect(rows[0].reason).toContain('failed at the card processor (expired_or_canceled_card)');
+    expect(back.history.some((h: { action: string }) => h.action === 'refund_failed')).toBe(true);
+    // Every event of it again, newest first: still put back, nothing counted twice.
+    const events = (await fakeEvents(intent)).filter((e) => e.type.startsWith('refund.') || e.type === 'charge.refunded');
+    expect(events.map((e) => e.type).sort()).toEqual(['charge.refunded', 'refund.created', 'refund.failed', 'refund.updated']);
+    for (const e of [...events].reverse()) expect((await postWebhook(new Client(), e.payload)).status).toBe(200);
+    const still = await getInvoice(co.owner, inv.id);
+    expect(still).toMatchObject({ status: 'paid', paidCents: T });
+    expect(await testDb()('stripe_refunds').where({ organization_id: co.id, payment_id: pay.id })).toMatchObject([{ status: 'failed', failure: 'expired_or_canceled_card' }]);
+  });
+
+  it('never counts a failed refund whose failure arrives before its creation', async () => {
+    const { inv, intent } = await paidInvoice(45_000, '4000000000005126');
+    const T = inv.totalCents;
+    const made = await offline(async () => {
+      const r = await stripeOutside().refunds.create({ payment_intent: intent, amount: T });
+      await waitFor(() => fakeEvents(r.id), (evs) => evs.some((e) => e.type === 'refund.failed'));
+      return r;
+    });
+    const events = await fakeEvents(made.id);
+    const order = ['refund.failed', 'refund.updated', 'refund.created'].map((t) => byType(events, t));
+    for (const e of [...order, ...(await fakeEvents(intent)).filter((e) => e.type === 'charge.refunded')]) expect((await postWebhook(new Client(), e.payload)).status).toBe(200);
+    const after = await getInvoice(co.owner, inv.id);
+    expect(after).toMatchObject({ status: 'paid', paidCents: T });
+    expect(after.refunds).toHaveLength(0);
+    expect(await testDb()('stripe_refunds').where({ stripe_refund: made.id }).first()).toMatchObject({ status: 'failed' });
+  });
+
+  it('counts a pending refund (test card 4000 0000 0000 7726) once, through to succeeded', async () => {
+    const { inv, pay } = await paidInvoice(30_000, '4000000000007726');
+    const r = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: inv.totalCents });
+    expect(r.status, r.text).toBe(200);
+    expect(r.body.status).toBe('issued');
+    const row = await waitFor(() => testDb()('stripe_refunds').where({ organization_id: co.id, payment_id: pay.id }).first(), (x) => x?.status === 'succeeded');
+    expect(row.stripe_refund).toMatch(/^re_test_/);
+    const after = await getInvoice(co.owner, inv.id);
+    expect(after.refunds).toHaveLength(1);
+    expect(after.paidCents).toBe(0);
+  });
+
+  it('checks the invoice, the payment and the amount before asking Stripe for anything', async () => {
+    const { inv, intent, pay } = await paidInvoice(25_000);
+    const other = await paidInvoice(26_000);
+    const asked = async () => (await stripeOutside().refunds.list({ payment_intent: intent })).data.length;
+    const tries = [
+      { url: `/api/invoices/${other.inv.id}/payments/${pay.id}/refund`, body: { amountCents: 1_000 }, status: 404 },
+      { url: `/api/invoices/999999999/payments/${pay.id}/refund`, body: { amountCents: 1_000 }, status: 404 },
+      { url: `/api/invoices/${inv.id}/payments/${pay.id}/refund`, body: { amountCents: inv.totalCents + 1 }, status: 422 },
+      { url: `/api/invoices/${inv.id}/payments/${pay.id}/refund`, body: { amountCents: inv.totalCents + 1, requestKey: 'k-too-much-00000000' }, status: 422 },
+    ];
+    for (const t of tries) expect((await co.owner.post(t.url, t.body)).status, t.url).toBe(t.status);
+    for (const role of [co.crew_lead, co.bookkeeper, co.estimator]) expect((await role.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 1_000 })).status).toBe(403);
+    expect(await asked()).toBe(0);
+    expect(await testDb()('stripe_refunds').where({ organization_id: co.id, payment_id: pay.id })).toEqual([]);
+  });
+
+  it('when saving fails after Stripe made the refund, the webhook records it once and asking again does not refund twice', async () => {
+    const { inv, intent, pay } = await paidInvoice(70_000);
+    const T = inv.totalCents;
+    // The record step fails (refuseRefundRows). The endpoint is off meanwhile, so the test
+    // delivers the events itself, when it chooses.
+    const key = `retry-${inv.id}-bbbbbbbbbbbbbb`;
+    const ask = () => co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 7_000, reason: 'Dead gate latch', requestKey: key });
+    const undo = await refuseRefundRows(pay.id);
+    try {
+      await offline(async () => {
+        const first = await ask();
+        expect(first.status, first.text).toBe(503);
+        expect(first.body.error.code).toBe('REFUND_UNRECORDED');
+        // Asked again while the record still fails: the same key, so Stripe answers with the same refund.
+        expect((await ask()).status).toBe(503);
+      });
+      expect(await testDb()('stripe_refunds').where({ organization_id: co.id, payment_id: pay.id })).toMatchObject([{ status: 'requested', stripe_refund: null, request_key: key }]);
+    } finally {
+      await undo();
+    }
+    const atStripe = await stripeOutside().refunds.list({ payment_intent: intent });
+    expect(atStripe.data).toHaveLength(1);
+    expect((await getInvoice(co.owner, inv.id)).refunds).toHaveLength(0);
+    // The webhook: refund.created alone records it against the request (who asked, why).
+    const created = byType(await fakeEvents(atStripe.data[0].id), 'refund.created');
+    expect((await postWebhook(new Client(), created.payload)).status).toBe(200);
+    let after = await getInvoice(co.owner, inv.id);
+    expect(after.refunds).toHaveLength(1);
+    expect(after.refunds[0]).toMatchObject({ amountCents: 7_000, reason: 'Dead gate latch', stripeRefund: atStripe.data[0].id });
+    expect(after.paidCents).toBe(T - 7_000);
+    // Asking again with the same key: done already, nothing new at Stripe or here.
+    const retry = await ask();
+    expect(retry.status, retry.text).toBe(200);
+    // Every event of the payment again, newest first: nothing changes.
+    for (const e of (await fakeEvents(intent)).reverse()) expect((await postWebhook(new Client(), e.payload)).status).toBe(200);
+    after = await getInvoice(co.owner, inv.id);
+    expect(after.refunds).toHaveLength(1);
+    expect(after.paidCents).toBe(T - 7_000);
+    expect((await stripeOutside().refunds.list({ payment_intent: intent })).data).toHaveLength(1);
+    expect(await testDb()('stripe_refunds').where({ organization_id: co.id, payment_id: pay.id })).toMatchObject([{ status: 'succeeded', requested_by: expect.any(String) }]);
+  });
+
+  it('asks Stripe again with the same key when the first answer was not saved, and records one refund', async () => {
+    const { inv, intent, pay } = await paidInvoice(40_000);
+    const T = inv.totalCents;
+    const undo = await refuseRefundRows(pay.id);
+    try {
+      await offline(async () => expect((await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 4_000 })).status).toBe(503));
+    } finally {
+      await undo();
+    }
+    // No request key: the same amount, still unanswered here, is taken as the same refund.
+    const again = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 4_000 });
+    expect(again.status, again.text).toBe(200);
+    expect(again.body.refunds).toHaveLength(1);
+    expect(again.body.paidCents).toBe(T - 4_000);
+    expect((await stripeOutside().refunds.list({ payment_intent: intent })).data).toHaveLength(1);
+    // A different amount is another refund.
+    const more = await co.owner.post(`/api/invoices/${inv.id}/payments/${pay.id}/refund`, { amountCents: 1_000 });
+    expect(more.status, more.text).toBe(200);
+    expect(more.body.refunds).toHaveLength(2);
+    expect((await stripeOutside().refunds.list({ payment_intent: intent })).data).toHaveLength(2);
+    for (const e of await fakeEvents(intent)) expect((await postWebhook(new Client(), e.payload)).status).toBe(200);
+    expect((await getInvoice(co.owner, inv.id)).refunds).toHaveLength(2);
   });
 });
 

@@ -40,18 +40,59 @@ export function payLink(text: string): string {
   return m[0];
 }
 
-/** Presses a button on the stand-in's hosted page, as the customer's browser would; returns where it sends them. */
-export async function hostedPage(sessionUrl: string, action: 'pay' | 'decline' | 'cancel'): Promise<{ status: number; location: string | null; html: string }> {
+/**
+ * Presses a button on the stand-in's hosted page, as the customer's browser would; returns
+ * where it sends them. `card` is one of Stripe's test card numbers (the page lists them).
+ */
+export async function hostedPage(sessionUrl: string, action: 'pay' | 'decline' | 'cancel', card = '4242424242424242'): Promise<{ status: number; location: string | null; html: string }> {
   const page = await fetch(sessionUrl);
   expect(page.status).toBe(200);
-  const res = await fetch(`${sessionUrl}/${action}`, { method: 'POST', body: 'email=x', headers: { 'content-type': 'application/x-www-form-urlencoded' }, redirect: 'manual' });
+  const res = await fetch(`${sessionUrl}/${action}`, { method: 'POST', body: new URLSearchParams({ email: 'x', card }).toString(), headers: { 'content-type': 'application/x-www-form-urlencoded' }, redirect: 'manual' });
   return { status: res.status, location: res.headers.get('location'), html: await res.text() };
 }
 
-export interface FakeEvent { id: string; type: string; payload: string; deliveries: { status: number }[] }
+export interface FakeEvent { id: string; type: string; payload: string; delivered: boolean; deliveries: { status: number }[] }
 
-export async function fakeEvents(): Promise<FakeEvent[]> {
-  return (await fetch(`${stack().stripeApi}/_fake/events`)).json() as Promise<FakeEvent[]>;
+/** The events the stand-in made for the app's endpoint; `contains` keeps those whose body has that text (an id). */
+export async function fakeEvents(contains?: string): Promise<FakeEvent[]> {
+  return (await fetch(`${stack().stripeApi}/_fake/events${contains ? `?contains=${encodeURIComponent(contains)}` : ''}`)).json() as Promise<FakeEvent[]>;
+}
+
+/**
+ * Turns the app's webhook endpoint at the stand-in off (events are made and listed, not sent)
+ * or on, so a test can deliver them itself in an order of its choosing. Test files run one
+ * at a time; turn it back on in a finally.
+ */
+export async function webhookEndpoint(disabled: boolean): Promise<void> {
+  const r = await fetch(`${stack().stripeApi}/_fake/endpoint`, { method: 'POST', body: JSON.stringify({ disabled }) });
+  expect((await r.json()).disabled).toBe(disabled);
+}
+
+/** The Stripe SDK against the stack's stand-in, as someone using Stripe's dashboard or API outside Tallypost. */
+export function stripeOutside(): Stripe {
+  const api = new URL(stack().stripeApi);
+  return new Stripe('sk_test_outside', { host: api.hostname, port: Number(api.port), protocol: 'http', maxNetworkRetries: 0 });
+}
+
+/**
+ * An invoice's life at the card processor, made at the stand-in with the app's endpoint off:
+ * the Checkout Session the app would make (its metadata), a declined try, the payment, and a
+ * partial refund made outside Tallypost. Returns the events Stripe made for it, in the order
+ * made, for the caller to deliver as it likes.
+ */
+export async function cardLife(companyId: string, inv: { id: number; totalCents: number }, opts: { refundCents?: number; card?: string; decline?: boolean } = {}) {
+  const sdk = stripeOutside();
+  const meta = { invoice_id: String(inv.id), organization_id: companyId };
+  const session = await sdk.checkout.sessions.create({
+    mode: 'payment', success_url: 'http://127.0.0.1/ok', cancel_url: 'http://127.0.0.1/no', metadata: meta, payment_intent_data: { metadata: meta },
+    line_items: [{ quantity: 1, price_data: { currency: 'usd', unit_amount: inv.totalCents, product_data: { name: `Invoice ${inv.id}` } } }],
+  });
+  if (opts.decline !== false) await hostedPage(session.url!, 'decline');
+  const paid = await hostedPage(session.url!, 'pay', opts.card);
+  expect(paid.status).toBe(303);
+  const intent = (await sdk.checkout.sessions.retrieve(session.id)).payment_intent as string;
+  const refund = opts.refundCents ? await sdk.refunds.create({ payment_intent: intent, amount: opts.refundCents }) : null;
+  return { session: session.id, intent, refund, events: await fakeEvents(intent) };
 }
 
 const signer = new Stripe('sk_test_signer');

@@ -74,7 +74,14 @@ export type PaymentInput = z.output<typeof paymentInput>;
 export const refundInput = z.strictObject({
   amountCents: positiveCents('the refund'),
   reason: optionalText(500),
+  /**
+   * The asker's token for this one refund (the form makes one when it opens): sent again on
+   * a retry, it finds the same request, so the card processor is asked with the same
+   * idempotency key and cannot refund twice.
+   */
+  requestKey: z.string().regex(/^[A-Za-z0-9_-]{16,64}$/, 'A request key is 16 to 64 letters, digits, - or _.').optional(),
 });
+export type RefundInput = z.output<typeof refundInput>;
 
 export const changeOrderInput = z.strictObject({
   jobId: id,

@@ -1,9 +1,8 @@
 import type { Knex } from 'knex';
 import type { Actor } from '../http.ts';
 import { AppError, notFound } from '../../lib/errors.ts';
-import { applyPayment, PAYMENT_METHOD_LABELS, refundSplit, type PaymentMethod } from '../../lib/billing/payments.ts';
+import { applyPayment, PAYMENT_METHOD_LABELS, type PaymentMethod } from '../../lib/billing/payments.ts';
 import { paidStatus } from '../../lib/billing/invoice.ts';
-import { toStripeAmount } from '../../lib/billing/stripe-amount.ts';
 import { formatMoney } from '../../lib/format.ts';
 import type { PaymentInput } from '../../lib/billing/schema.ts';
 import * as repo from '../repos/invoices.ts';
@@ -13,7 +12,6 @@ import { enqueueMail } from '../mail/outbox.ts';
 import { receiptMail } from './billing-mail.ts';
 import { invoiceUrl } from './invoice-links.ts';
 import { getInvoice, tx } from './invoices.ts';
-import { stripe } from '../payments/stripe.ts';
 import { expireStaleCheckoutSessions } from './checkout-sessions.ts';
 
 /** The one way a payment lands, manual or by card: under the invoice's row lock. */
@@ -78,35 +76,6 @@ export async function recordPayment(actor: Actor, invoiceId: number, input: Paym
   // A hosted card page made for the old balance must not take money any more.
   await expireStaleCheckoutSessions({ companyId: actor.companyId, invoiceId });
   return { paymentId: r.paymentId, invoice: await getInvoice(actor, invoiceId) };
-}
-
-/** Refund recorded in Tallypost; a card payment's refund goes through Stripe in the same step. */
-export async function refundPayment(actor: Actor, paymentId: number, input: { amountCents: number; reason: string | null }) {
-  const invoiceId = await tx(async (trx) => {
-    const pre = await repo.findPayment(actor.companyId, paymentId, trx);
-    if (!pre) throw notFound('That payment');
-    const inv = (await repo.findInvoice(actor.companyId, pre.invoiceId, trx, true))!;
-    const pay = (await repo.findPayment(actor.companyId, paymentId, trx, true))!;
-    const part = refundSplit(pay, input.amountCents);
-    if (!part) throw new AppError('RULE_BROKEN', `At most ${formatMoney(pay.appliedCents + pay.creditCents - pay.refundedCents)} of this payment is left to refund.`, { amountCents: 'More than is left of the payment.' });
-    let stripeRefund: string | null = null;
-    if (pay.method === 'card' && pay.stripePaymentIntent) {
-      const s = await billingSettings(actor.companyId, trx);
-      try {
-        const r = await stripe().refunds.create(
-          { payment_intent: pay.stripePaymentIntent, amount: toStripeAmount(input.amountCents, s.currency), metadata: { invoice_id: String(inv.id), organization_id: actor.companyId, payment_id: String(pay.id) } },
-          { idempotencyKey: `refund:${pay.id}:${pay.refundedCents}:${input.amountCents}` },
-        );
-        stripeRefund = r.id;
-      } catch (err) {
-        throw new AppError('PAYMENT_PROVIDER', `The card processor refused the refund: ${err instanceof Error ? err.message : String(err)}`);
-      }
-    }
-    await insertRefundTx(trx, actor, inv, pay, part, { amountCents: input.amountCents, reason: input.reason, stripeRefund });
-    return inv.id;
-  });
-  await expireStaleCheckoutSessions({ companyId: actor.companyId, invoiceId });
-  return getInvoice(actor, invoiceId);
 }
 
 export async function insertRefundTx(trx: Knex.Transaction, actor: Actor, inv: repo.InvoiceRecord, pay: repo.PaymentRecord, part: { fromCreditCents: number; fromInvoiceCents: number }, r: { amountCents: number; reason: string | null; stripeRefund: string | null }) {

@@ -3,13 +3,14 @@ import { z } from 'zod';
 import type { Actor } from '../http.ts';
 import { AppError } from '../../lib/errors.ts';
 import { fromStripeAmount } from '../../lib/billing/stripe-amount.ts';
-import { refundSplit } from '../../lib/billing/payments.ts';
 import * as repo from '../repos/invoices.ts';
 import { billingSettings, todayIn } from '../repos/billing-settings.ts';
 import { audit } from '../repos/audit.ts';
+import { db } from '../db.ts';
 import { verifyWebhook } from '../payments/stripe.ts';
-import { insertRefundTx, landPaymentTx } from './payments.ts';
+import { landPaymentTx } from './payments.ts';
 import { tx } from './invoices.ts';
+import { askedByTallypost, chargeRefunds, intentIsOurs, intentOf, processorRefund, reconcileRefundTx, type ProcessorRefund, type ReconcileOutcome } from './refunds.ts';
 import { bumpDataVersion } from '../report-cache.ts';
 import { expireStaleCheckoutSessions, markCheckoutSession } from './checkout-sessions.ts';
 
@@ -20,6 +21,41 @@ const system = (companyId: string): Actor => ({ companyId, userId: '', role: 'ow
 
 type Outcome = { status: number; body: { received: true; outcome: string } };
 
+/** Events whose object is a Refund. charge.refund.updated is the older name of refund.updated; taken alike if it comes. */
+const REFUND_EVENTS = new Set(['refund.created', 'refund.updated', 'refund.failed', 'charge.refund.updated']);
+
+/** The charge.refunded object as far as it is read: since API version 2022-11-15 it carries no refunds. */
+const refundedCharge = z.object({ id: z.string().min(1).max(64), object: z.literal('charge'), payment_intent: z.union([z.string().max(64), z.null()]) });
+
+/**
+ * What a refund event needs from the card processor, read before the transaction opens so no
+ * lock waits on the network: the refunds themselves (a refund event's own object; for
+ * charge.refunded the charge's refunds listed through the SDK), or, for a payment not
+ * recorded here yet, whether its PaymentIntent is one of ours (then the event is refused so
+ * Stripe delivers it again once the payment has landed).
+ */
+type Prefetched = { intent: string | null; refunds: ProcessorRefund[] | null; ours: boolean } | null;
+
+async function prefetch(event: Stripe.Event): Promise<Prefetched> {
+  const obj = event.data.object as unknown;
+  if (REFUND_EVENTS.has(event.type)) {
+    const r = processorRefund.safeParse(obj);
+    if (!r.success) return { intent: null, refunds: [], ours: false };
+    const intent = intentOf(r.data);
+    if (!intent) return { intent: null, refunds: [r.data], ours: false };
+    if (await repo.findPaymentByIntent(intent)) return { intent, refunds: [r.data], ours: true };
+    return { intent, refunds: [r.data], ours: askedByTallypost(r.data) || (await intentIsOurs(intent, metadata)) };
+  }
+  if (event.type === 'charge.refunded') {
+    const ch = refundedCharge.safeParse(obj);
+    if (!ch.success || !ch.data.payment_intent) return { intent: null, refunds: [], ours: false };
+    const intent = ch.data.payment_intent;
+    if (await repo.findPaymentByIntent(intent)) return { intent, refunds: await chargeRefunds(ch.data.id), ours: true };
+    return { intent, refunds: null, ours: await intentIsOurs(intent, metadata) };
+  }
+  return null;
+}
+
 /**
  * The webhook: verify the raw body, store the event id, act on it once. The event row and
  * its effect commit together, so a replay (or a second delivery racing the first) finds the
@@ -29,6 +65,9 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
   const v = verifyWebhook(raw, signature);
   if (!v.ok) throw new AppError('BAD_SIGNATURE', `Webhook refused: ${v.reason}`);
   const event = v.event;
+  // A replay changes nothing, so it need not ask the card processor anything either.
+  if (await db()('stripe_events').where('id', event.id).first('id')) return { status: 200, body: { received: true, outcome: 'already handled' } };
+  const pre = await prefetch(event);
   // The event row is inserted first: a second delivery of the same id waits on it and then
   // finds it taken; nothing else is locked before the invoice row.
   const outcome = await tx(async (trx) => {
@@ -38,7 +77,7 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
       if ((err as { code?: string }).code === 'ER_DUP_ENTRY') return 'already handled';
       throw err;
     }
-    const result = await apply(trx, event);
+    const result = await apply(trx, event, pre);
     await trx('stripe_events').where('id', event.id).update({ organization_id: result.companyId, invoice_id: result.invoiceId, outcome: result.outcome.slice(0, 200) });
     return result;
   });
@@ -52,7 +91,7 @@ export async function handleStripeWebhook(raw: Buffer, signature: string | null)
 
 interface Applied { companyId: string | null; invoiceId: number | null; outcome: string }
 
-async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event): Promise<Applied> {
+async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event, pre: Prefetched): Promise<Applied> {
   const obj = event.data.object as unknown as Record<string, unknown>;
   const meta = metadata.safeParse(obj.metadata ?? {});
   switch (event.type) {
@@ -85,32 +124,31 @@ async function apply(trx: import('knex').Knex.Transaction, event: Stripe.Event):
       await audit(trx, system(companyId), 'invoice', invoiceId, 'card_declined', { message: err.message ?? 'The card was declined.', declineCode: err.decline_code ?? null, intent: obj.id });
       return { companyId, invoiceId, outcome: 'card failure noted' };
     }
-    case 'charge.refunded': {
-      // Refunds made in Tallypost are recorded when made; this catches one whose record was lost, or made elsewhere.
-      const intent = String(obj.payment_intent ?? '');
-      const pay = intent ? await repo.findPaymentByIntent(intent, trx) : undefined;
-      if (!pay) {
-        // A refund of one of our payments that has not landed yet (events can arrive in any
-        // order): refuse it so Stripe delivers it again later; the event id is not kept.
-        if (meta.success) throw new AppError('EVENT_NOT_READY', 'The payment this refund belongs to is not recorded yet; deliver the event again later.');
+    case 'charge.refunded':
+    case 'refund.created':
+    case 'refund.updated':
+    case 'refund.failed':
+    case 'charge.refund.updated': {
+      // Refunds are recorded from the refunds themselves, whoever made them (here or at Stripe)
+      // and whichever event comes first; reconcileRefundTx counts each once and puts back one
+      // that failed.
+      if (!pre?.intent) return { companyId: null, invoiceId: null, outcome: 'ignored: not a refund of a payment' };
+      const pay = await repo.findPaymentByIntent(pre.intent, trx);
+      if (!pay || !pre.refunds) {
+        // A refund of one of our payments that has not landed yet (events come in any order):
+        // refused, so Stripe delivers it again later; the event id is not kept.
+        if (pre.ours) throw new AppError('EVENT_NOT_READY', 'The payment this refund belongs to is not recorded yet; deliver the event again later.');
         return { companyId: null, invoiceId: null, outcome: 'ignored: unknown payment' };
       }
       const companyId = (await trx('payments').where('id', pay.id).first('organization_id')).organization_id as string;
-      const s = await billingSettings(companyId, trx);
-      const refunds = ((obj.refunds as { data?: { id: string; amount: number }[] } | undefined)?.data ?? []);
-      let n = 0;
-      for (const rf of refunds) {
-        // Locks first, then a locking read: a refund made in Tallypost a moment ago is seen.
-        const inv = (await repo.findInvoice(companyId, pay.invoiceId, trx, true))!;
-        const fresh = (await repo.findPayment(companyId, pay.id, trx, true))!;
-        if (await trx('refunds').where('stripe_refund', rf.id).forUpdate().first('id')) continue;
-        const cents = fromStripeAmount(rf.amount, s.currency);
-        const part = refundSplit(fresh, cents);
-        if (!part) continue;
-        await insertRefundTx(trx, system(companyId), inv, fresh, part, { amountCents: cents, reason: 'Refunded at the card processor', stripeRefund: rf.id });
-        n++;
+      const tally = new Map<ReconcileOutcome, number>();
+      for (const r of pre.refunds) {
+        if (intentOf(r) !== pre.intent) continue;
+        const o = await reconcileRefundTx(trx, companyId, pay.id, r);
+        tally.set(o, (tally.get(o) ?? 0) + 1);
       }
-      return { companyId, invoiceId: pay.invoiceId, outcome: n ? `${n} refund(s) recorded` : 'refunds already recorded' };
+      const outcome = [...tally].filter(([o]) => o !== 'unchanged').map(([o, n]) => `${n} ${o}`).join(', ');
+      return { companyId, invoiceId: pay.invoiceId, outcome: outcome ? `refunds: ${outcome}` : 'refunds already recorded' };
     }
     default:
       return { companyId: null, invoiceId: null, outcome: `ignored: ${event.type}` };

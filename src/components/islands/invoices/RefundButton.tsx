@@ -9,12 +9,15 @@ export default function RefundButton({ invoiceId, paymentId, leftCents }: { invo
   const [reason, setReason] = useState('');
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  // One token per refund asked: pressing again after an error sends it again, and the server
+  // asks the card processor for the same refund rather than a second one.
+  const [requestKey] = useState(() => crypto.randomUUID().replace(/-/g, ''));
   if (!open) return <button type="button" className="text-xs underline" onClick={() => setOpen(true)}>Refund</button>;
   async function go() {
     const cents = parseMoney(amount);
     if (cents === null || cents <= 0) { setError('Enter an amount such as 50.00.'); return; }
     setBusy(true);
-    const r = await api(`/api/invoices/${invoiceId}/payments/${paymentId}/refund`, { method: 'POST', body: { amountCents: cents, reason } });
+    const r = await api(`/api/invoices/${invoiceId}/payments/${paymentId}/refund`, { method: 'POST', body: { amountCents: cents, reason, requestKey } });
     if (r.ok) window.location.reload();
     else { setBusy(false); setError(r.error.message); }
   }
