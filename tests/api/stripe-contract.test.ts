@@ -11,8 +11,9 @@ import { eventTypeName, FIXTURES, loadSdkTypes, newerThanExample, RESOURCE_TYPES
 /**
  * The Stripe stand-in against Stripe itself: every call the app makes and every event it is
  * sent, checked against two sources from outside the project (tests/setup/stripe-shapes.ts):
- * - Stripe's published example objects (tests/fixtures/stripe/openapi-fixtures3.json, from
- *   github.com/stripe/openapi at f6c2a48, MIT): keys and value types;
+ * - Stripe's published example objects (tests/fixtures/stripe/openapi-fixtures3.json, a byte-identical
+ *   copy of ../shared/reference/stripe-openapi-fixtures3.json, from github.com/stripe/openapi
+ *   at f6c2a48, MIT): keys and value types;
  * - stripe-node 23.1.0's types (node_modules/stripe/cjs/resources/*.d.ts), which describe
  *   API version 2026-10-28.endive, the one the app pins: every key Stripe may send, which it
  *   always sends, nullability, enum values, and which fields are ids until expand[] asks.
