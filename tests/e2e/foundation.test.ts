@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { closeBrowser, hydrated, launch, shot, signIn, watchConsole } from '../setup/browser';
 import { stack } from '../setup/stack';
+import { waitForMail } from '../setup/mail';
 
 let browser: Browser;
 const base = () => stack().appUrl;
@@ -76,6 +77,46 @@ describe('signing in as each role', () => {
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await expect.poll(() => page.getByRole('alert').first().textContent()).toContain('do not match');
+    await ctx.close();
+  });
+});
+
+describe('signing up and signing in safely', () => {
+  it('a new owner signs up, confirms the address from the mail, and lands in their company', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+    const page = await ctx.newPage();
+    const email = `e2e.owner.${Date.now().toString(36)}@tests.example`;
+    await page.goto(`${base()}/sign-up`);
+    await hydrated(page);
+    await page.getByLabel('Company name').fill('Hollow Creek Fence');
+    await page.getByLabel('Your name').fill('Dana Field');
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByLabel('Password').fill('a-good-long-password');
+    await page.getByRole('button', { name: 'Create the company' }).click();
+    await expect.poll(() => page.getByTestId('sign-up-sent').textContent()).toContain(email);
+    await shot(page, 'sign-up-check-email');
+    const mail = (await waitForMail(email)).find((m) => /Confirm your e-mail/.test(m.subject))!;
+    const link = mail.text.match(/https?:\/\/\S+\/verify-email\?\S+/)![0];
+    await page.goto(link);
+    await page.waitForURL(`${base()}/`);
+    await expect.poll(() => page.getByTestId('company-name').textContent()).toBe('Hollow Creek Fence');
+    await shot(page, 'sign-up-confirmed-dashboard');
+    await ctx.close();
+  });
+
+  it('after sign-in a hostile ?next= keeps the browser on this site', async () => {
+    const ctx = await browser.newContext();
+    for (const next of ['/%5Cevil.example/x', '//evil.example/x', '/%09/evil.example', 'javascript:alert(1)']) {
+      const page = await ctx.newPage();
+      await page.goto(`${base()}/sign-in?next=${next}`);
+      await hydrated(page);
+      await page.getByLabel('E-mail').fill('bookkeeper@example.com');
+      await page.getByLabel('Password').fill(stack().demoPassword);
+      await Promise.all([page.waitForURL(`${base()}/`), page.getByRole('button', { name: 'Sign in' }).click()]);
+      expect(new URL(page.url()).origin, next).toBe(base());
+      await ctx.clearCookies();
+      await page.close();
+    }
     await ctx.close();
   });
 });
