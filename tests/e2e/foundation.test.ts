@@ -3,6 +3,7 @@ import type { Browser } from 'playwright-core';
 import { closeBrowser, hydrated, launch, shot, signIn, watchConsole } from '../setup/browser';
 import { stack } from '../setup/stack';
 import { waitForMail } from '../setup/mail';
+import { PASSWORD, confirmLink, makeCompany, uniqueEmail } from '../setup/factory';
 
 let browser: Browser;
 const base = () => stack().appUrl;
@@ -101,6 +102,49 @@ describe('signing up and signing in safely', () => {
     await page.waitForURL(`${base()}/`);
     await expect.poll(() => page.getByTestId('company-name').textContent()).toBe('Hollow Creek Fence');
     await shot(page, 'sign-up-confirmed-dashboard');
+    await ctx.close();
+  });
+
+  it('an invited crew lead creates an account, confirms it from the mail, and joins', async () => {
+    const co = await makeCompany();
+    const email = uniqueEmail('e2e-crew');
+    const inv = await co.owner.post('/api/members/invitations', { email, role: 'crew_lead' });
+    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await ctx.newPage();
+    await page.goto(`${base()}/accept-invite/${inv.body.id}`);
+    await hydrated(page);
+    await page.getByLabel('Your name').fill('Robin Post');
+    await page.getByLabel('Password').fill('a-good-long-password');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await expect.poll(() => page.getByTestId('accept-invite-sent').textContent()).toContain(email);
+    await shot(page, 'phone-accept-invite-check-email');
+    await page.goto(await confirmLink(email));
+    await page.waitForURL(`${base()}/accept-invite/${inv.body.id}`);
+    await hydrated(page);
+    await Promise.all([page.waitForURL(`${base()}/`), page.getByRole('button', { name: `Join ${co.name}` }).click()]);
+    await page.getByTestId('crew-board').waitFor();
+    await shot(page, 'phone-accept-invite-joined');
+    await ctx.close();
+  });
+
+  it('a member changes their password on Your account; their other sessions end', async () => {
+    const co = await makeCompany();
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+    const page = await signIn(ctx, base(), co.emails.estimator, PASSWORD);
+    await page.getByTestId('whoami').click();
+    await page.waitForURL(`${base()}/account`);
+    await hydrated(page);
+    await page.getByLabel('Current password').fill(PASSWORD);
+    await page.getByLabel('New password').fill('short');
+    await page.getByRole('button', { name: 'Change the password' }).click();
+    await page.locator('#newPassword-error').waitFor();
+    await page.getByLabel('New password').fill('a-fresh-long-password');
+    await page.getByRole('button', { name: 'Change the password' }).click();
+    await expect.poll(() => page.getByRole('status').textContent()).toContain('signed out');
+    await shot(page, 'account-password-changed');
+    expect((await co.estimator.get('/api/jobs')).status).toBe(401);
+    await page.goto(`${base()}/jobs`);
+    expect(new URL(page.url()).pathname).toBe('/jobs');
     await ctx.close();
   });
 
