@@ -37,9 +37,9 @@ const schema = z.object({
   /** Outbox worker: how often it looks for mail, how many it takes, how long it holds one. */
   WORKER_INTERVAL_MS: z.coerce.number().int().min(10).max(60_000).default(300),
   OUTBOX_BATCH: z.coerce.number().int().min(1).max(500).default(20),
-  OUTBOX_LOCK_SECONDS: z.coerce.number().int().min(5).max(3600).default(120),
+  OUTBOX_LOCK_SECONDS: z.coerce.number().int().min(1).max(3600).default(120),
   /** How often the worker looks for reminders due. */
-  REMINDER_EVERY_MS: z.coerce.number().int().min(100).max(3_600_000).default(5_000),
+  REMINDER_EVERY_MS: z.coerce.number().int().min(0).max(3_600_000).default(5_000),
   /** Fault injection for the crash tests only ('outbox-after-claim'). */
   TALLYPOST_FAULT: z.string().optional(),
 });
