@@ -2,7 +2,11 @@ import { defineMiddleware } from 'astro:middleware';
 import { identify } from './server/auth/session.ts';
 import { errorResponse, isDbDown } from './server/http.ts';
 import { databaseUp } from './server/db.ts';
-import { env } from './server/env.ts';
+import { assertReadyToServe, env } from './server/env.ts';
+
+// The server's start script runs this check before listening (src/cli/serve.mjs); here it
+// also stops a server started any other way from answering half configured.
+assertReadyToServe();
 
 /** Pages and endpoints anyone may open. */
 const PUBLIC_PAGES = [/^\/sign-in\/?$/, /^\/sign-up\/?$/, /^\/forgot-password\/?$/, /^\/reset-password\/?$/, /^\/accept-invite\//, /^\/pay\//, /^\/404\/?$/];
@@ -38,6 +42,8 @@ function securityHeaders(res: Response): Response {
   h.set('referrer-policy', 'strict-origin-when-cross-origin');
   h.set('x-frame-options', 'DENY');
   h.set('permissions-policy', 'camera=(), microphone=(), geolocation=()');
+  // Served over HTTPS: browsers must never try plain http for this host again (a year).
+  if (env().APP_URL.startsWith('https:')) h.set('strict-transport-security', 'max-age=31536000; includeSubDomains');
   return res;
 }
 
@@ -54,7 +60,7 @@ function sameOrigin(request: Request, url: URL): boolean {
   const origin = request.headers.get('origin');
   if (!origin) return false;
   if (origin === url.origin) return true;
-  const trusted = [new URL(env().APP_URL).origin, ...(process.env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean)];
+  const trusted = [new URL(env().APP_URL).origin, ...env().TRUSTED_ORIGINS];
   return trusted.includes(origin);
 }
 

@@ -17,6 +17,19 @@ const port = Number(process.env.PORT ?? 4321);
 const host = process.env.HOST ?? '127.0.0.1';
 const processes = Math.max(1, Number(process.env.WEB_CONCURRENCY ?? 1) || 1);
 
+// Refuse to start half configured (src/server/env.ts): before listening, not at the first
+// request, which is when the built app would first read its environment.
+if (cluster.isPrimary) {
+  const { tsImport } = await import('tsx/esm/api');
+  const { assertReadyToServe } = await tsImport('../server/env.ts', import.meta.url);
+  try {
+    assertReadyToServe();
+  } catch (err) {
+    console.error(`[serve] ${err.message}`);
+    process.exit(1);
+  }
+}
+
 if (cluster.isPrimary && processes > 1) {
   let stopping = false;
   for (let i = 0; i < processes; i++) cluster.fork();

@@ -46,12 +46,16 @@ function demoPassword(): string {
   return process.env.DEMO_PASSWORD || 'tallypost-demo';
 }
 
-/** The secret for signing sessions: kept in the data folder so sessions survive restarts. */
-function authSecret(dataRoot: string): string {
-  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
-  const file = path.join(dataRoot, 'auth-secret');
-  if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 });
-  return readFileSync(file, 'utf8').trim();
+/**
+ * A secret of the local stack (the session key, the invoice-link key, the stand-in's Stripe
+ * key and webhook secret): the caller's own value when set, else made once and kept in the
+ * data folder, so sessions and mailed links survive restarts. Production sets its own.
+ */
+function keptSecret(dataRoot: string, variable: string, file: string, make: () => string): string {
+  if (process.env[variable]) return process.env[variable]!;
+  const where = path.join(dataRoot, file);
+  if (!existsSync(where)) writeFileSync(where, make(), { mode: 0o600 });
+  return readFileSync(where, 'utf8').trim();
 }
 
 async function pickPort(preferred: number): Promise<number> {
@@ -102,7 +106,7 @@ async function main(): Promise<void> {
   const mailWebPort = await pickPort(Number(process.env.MAIL_WEB_PORT ?? 1080));
   const stripePort = await pickPort(Number(process.env.STRIPE_FAKE_PORT ?? 12111));
   const appUrl = `http://127.0.0.1:${appPort}`;
-  const stripeWebhookSecret = process.env.STRIPE_WEBHOOK_SECRET ?? `whsec_${randomBytes(16).toString('hex')}`;
+  const stripeWebhookSecret = keptSecret(dataRoot, 'STRIPE_WEBHOOK_SECRET', 'stripe-webhook-secret', () => `whsec_${randomBytes(24).toString('hex')}`);
 
   const appEnv: NodeJS.ProcessEnv = {
     ...process.env,
@@ -112,11 +116,13 @@ async function main(): Promise<void> {
     APP_URL: appUrl,
     HOST: '127.0.0.1',
     PORT: String(appPort),
-    AUTH_SECRET: authSecret(dataRoot),
+    AUTH_SECRET: keptSecret(dataRoot, 'AUTH_SECRET', 'auth-secret', () => randomBytes(32).toString('hex')),
+    LINK_SIGNING_SECRET: keptSecret(dataRoot, 'LINK_SIGNING_SECRET', 'link-signing-secret', () => randomBytes(32).toString('hex')),
     SMTP_HOST: '127.0.0.1',
     SMTP_PORT: String(smtpPort),
     SMTP_SECURE: 'false',
-    STRIPE_SECRET_KEY: process.env.STRIPE_SECRET_KEY ?? 'sk_test_tallypost_local',
+    // The stand-in takes any well-formed test key; a random one keeps the production check honest.
+    STRIPE_SECRET_KEY: keptSecret(dataRoot, 'STRIPE_SECRET_KEY', 'stripe-secret-key', () => `sk_test_${randomBytes(24).toString('hex')}`),
     STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
     STRIPE_API_BASE: `http://127.0.0.1:${stripePort}`,
     // App processes behind the port (node:cluster, see serve.mjs). One here: MariaDB shares
@@ -165,7 +171,7 @@ async function main(): Promise<void> {
     stripeApi: `http://127.0.0.1:${stripePort}`,
     stripeWebhookSecret,
     demoPassword: demoPassword(),
-    appEnv: Object.fromEntries(Object.entries(appEnv).filter(([k]) => /^(DATABASE_URL|APP_URL|AUTH_SECRET|SMTP_|STRIPE_|SIGN_IN_|NODE_ENV|ASTRO_|TALLYPOST_BUILD_DIR|MAIL_FROM)/.test(k))),
+    appEnv: Object.fromEntries(Object.entries(appEnv).filter(([k]) => /^(DATABASE_URL|APP_URL|AUTH_SECRET|LINK_SIGNING_SECRET|SMTP_|STRIPE_|SIGN_IN_|NODE_ENV|ASTRO_|TALLYPOST_BUILD_DIR|MAIL_FROM)/.test(k))),
     mariadb: maria ? { port: maria.port, socket: maria.socket, pidFile: maria.pidFile, dataDir: maria.dataDir } : null,
     pids: { app: app.child.pid, worker: worker.child.pid },
   };

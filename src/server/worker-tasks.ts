@@ -1,6 +1,7 @@
 // Each feature that makes attachments or needs periodic work registers it here, so the
 // worker process loads it. (Imports only; see registerAttachment / registerPeriodic.)
 import { registerAttachment, registerPeriodic } from './outbox/worker.ts';
+import { env } from './env.ts';
 import { invoicePdf } from './services/invoice-pdf.ts';
 import { sendDueReminders } from './services/reminders.ts';
 import { expireStaleCheckoutSessions } from './services/checkout-sessions.ts';
@@ -11,10 +12,9 @@ registerAttachment('invoice-pdf', async (ref, organizationId) => {
 });
 
 /** Reminders are looked at every few seconds at most (REMINDER_EVERY_MS); sending is once per invoice and day anyway. */
-const every = Number(process.env.REMINDER_EVERY_MS ?? 5_000);
 let last = 0;
 registerPeriodic(async () => {
-  if (Date.now() - last < every) return;
+  if (Date.now() - last < env().REMINDER_EVERY_MS) return;
   last = Date.now();
   await sendDueReminders();
 });

@@ -1,24 +1,35 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { Client } from '../setup/client';
-import { PASSWORD, makeCompany, uniqueEmail } from '../setup/factory';
-import { waitForMail } from '../setup/mail';
+import { PASSWORD, confirmEmail, makeCompany, uniqueEmail } from '../setup/factory';
+import { mailTo, waitForMail } from '../setup/mail';
 import { closeTestDb, testDb } from '../setup/db';
 import { stack } from '../setup/stack';
 
 afterAll(closeTestDb);
 
 describe('sign-up and sign-in', () => {
-  it('signs up the first person as owner of a new company', async () => {
+  it('signs up the first person as owner of a new company, signed in once the address is confirmed', async () => {
     const c = new Client();
     const email = uniqueEmail('first');
     const r = await c.post('/api/signup', { name: 'First Person', email, password: PASSWORD, companyName: 'Prairie Post & Rail' });
-    expect(r.status).toBe(201);
-    expect(r.body.company.name).toBe('Prairie Post & Rail');
-    const m = await testDb()('member as m').join('user as u', 'u.id', 'm.userId').where('u.email', email).first('m.role', 'm.organizationId');
-    expect(m).toMatchObject({ role: 'owner', organizationId: r.body.company.id });
-    const settings = await testDb()('company_settings').where('organization_id', r.body.company.id).first();
-    expect(settings).toBeTruthy();
+    expect(r.status).toBe(202);
+    expect(r.body).toEqual({ status: 'check-email', email });
+    expect(r.headers['set-cookie'] ?? []).toEqual([]);
+    const m = await testDb()('member as m').join('user as u', 'u.id', 'm.userId').join('organization as o', 'o.id', 'm.organizationId').where('u.email', email).first('m.role', 'm.organizationId', 'o.name', 'u.emailVerified');
+    expect(m).toMatchObject({ role: 'owner', name: 'Prairie Post & Rail' });
+    expect(Boolean(m.emailVerified)).toBe(false);
+    // The company comes with its settings and starting styles and rates (one transaction).
+    expect(await testDb()('company_settings').where('organization_id', m.organizationId).first()).toBeTruthy();
+    expect((await testDb()('fence_styles').where('organization_id', m.organizationId).count({ n: '*' }))[0].n).toBeGreaterThan(0);
+    // Not signed in, and the password alone does not sign in before the address is confirmed.
+    expect((await c.get('/api/jobs')).status).toBe(401);
+    const early = await new Client().signIn(email, PASSWORD);
+    expect(early.status).toBe(403);
+    expect(early.body.code).toBe('EMAIL_NOT_VERIFIED');
+    expect(await confirmEmail(c, email)).toBe('/');
     expect((await c.get('/api/jobs')).status).toBe(200);
+    expect((await c.get('/api/settings')).status).toBe(200);
+    expect((await new Client().signIn(email, PASSWORD)).status).toBe(200);
   });
 
   it('answers 400 with field errors for bad sign-up input', async () => {
@@ -27,12 +38,32 @@ describe('sign-up and sign-in', () => {
     expect(Object.keys(r.body.error.fields).sort()).toEqual(['companyName', 'email', 'name', 'password']);
   });
 
-  it('answers 409 for an e-mail that already has an account', async () => {
+  it('answers a sign-up with a known address exactly as a new one, and mails the holder instead', async () => {
     const email = uniqueEmail('twice');
-    expect((await new Client().post('/api/signup', { name: 'A', email, password: PASSWORD, companyName: 'One Co' })).status).toBe(201);
-    const again = await new Client().post('/api/signup', { name: 'B', email, password: PASSWORD, companyName: 'Two Co' });
-    expect(again.status).toBe(409);
-    expect(again.body.error.code).toBe('DUPLICATE_EMAIL');
+    const first = await new Client().post('/api/signup', { name: 'A', email, password: PASSWORD, companyName: 'One Co' });
+    await confirmEmail(new Client(), email);
+    const again = await new Client().post('/api/signup', { name: 'B', email, password: 'another-password-1', companyName: 'Two Co' });
+    const fresh = uniqueEmail('fresh');
+    const other = await new Client().post('/api/signup', { name: 'C', email: fresh, password: PASSWORD, companyName: 'Three Co' });
+    for (const r of [first, again, other]) {
+      expect(r.status).toBe(202);
+      expect(r.headers['set-cookie'] ?? []).toEqual([]);
+    }
+    expect(again.body).toEqual({ ...other.body, email });
+    expect(Object.keys(again.headers).sort()).toEqual(Object.keys(other.headers).sort());
+    // better-auth's own sign-up (the invitation page uses it) answers alike too.
+    const su = (e: string) => new Client().post('/api/auth/sign-up/email', { name: 'D', email: e, password: PASSWORD });
+    const [known, unknown] = [await su(email), await su(uniqueEmail('new'))];
+    expect([known.status, unknown.status]).toEqual([200, 200]);
+    expect(Object.keys(known.body.user).sort()).toEqual(Object.keys(unknown.body.user).sort());
+    expect(known.body.token).toBeNull();
+    // Nothing changed for the holder: one account, one company, the old password.
+    expect((await testDb()('user').where('email', email).count({ n: '*' }))[0].n).toBe(1);
+    const companies = await testDb()('member as m').join('user as u', 'u.id', 'm.userId').where('u.email', email).select('m.organizationId');
+    expect(companies).toHaveLength(1);
+    expect((await new Client().signIn(email, PASSWORD)).status).toBe(200);
+    // The holder hears about it.
+    await expect.poll(async () => (await mailTo(email)).filter((m) => /Someone tried to sign up/.test(m.subject)).length, { timeout: 20_000 }).toBe(2);
   });
 
   it('signs in the demo owner and keeps the session cookie HttpOnly and SameSite', async () => {
@@ -110,7 +141,7 @@ describe('sign-up and sign-in', () => {
 });
 
 describe('invitations and members', () => {
-  it('invites by e-mail; the invitee accepts through the link and gets the role', async () => {
+  it('invites by e-mail; the invitee confirms the address, comes back to the link and gets the role', async () => {
     const co = await makeCompany();
     const email = uniqueEmail('invitee');
     const inv = await co.owner.post('/api/members/invitations', { email, role: 'estimator' });
@@ -122,10 +153,43 @@ describe('invitations and members', () => {
     expect(page.status).toBe(200);
     expect(page.text).toContain(co.name);
     const c = new Client();
-    await c.post('/api/auth/sign-up/email', { name: 'New Estimator', email, password: PASSWORD });
+    const here = `/accept-invite/${inv.body.id}`;
+    expect((await c.post('/api/auth/sign-up/email', { name: 'New Estimator', email, password: PASSWORD, callbackURL: here })).status).toBe(200);
+    // Not signed in yet: joining needs a confirmed address.
+    expect((await c.post('/api/auth/organization/accept-invitation', { invitationId: inv.body.id })).status).toBe(401);
+    expect(await confirmEmail(c, email)).toBe(here);
     expect((await c.post('/api/auth/organization/accept-invitation', { invitationId: inv.body.id })).status).toBe(200);
     const members = await co.owner.get('/api/members');
     expect(members.body.members.find((m: { email: string }) => m.email === email).role).toBe('estimator');
+  });
+
+  it('an invitation link is not a bearer token: an account whose address is not confirmed cannot join', async () => {
+    const co = await makeCompany();
+    const email = uniqueEmail('victim');
+    const inv = await co.owner.post('/api/members/invitations', { email, role: 'bookkeeper' });
+    // Someone who learned the link (not the mailbox) signs up with the invited address.
+    const intruder = new Client();
+    expect((await intruder.post('/api/auth/sign-up/email', { name: 'Intruder', email, password: 'intruder-password-1' })).status).toBe(200);
+    expect((await intruder.post('/api/auth/organization/accept-invitation', { invitationId: inv.body.id })).status).toBe(401);
+    const signIn = await intruder.signIn(email, 'intruder-password-1');
+    expect(signIn.status).toBe(403);
+    expect(signIn.body.code).toBe('EMAIL_NOT_VERIFIED');
+    expect((await intruder.post('/api/auth/organization/accept-invitation', { invitationId: inv.body.id })).status).toBe(401);
+    // Even a session that exists without a confirmed address (made here by hand) is refused.
+    const holder = await makeCompany();
+    const unconfirmed = new Client();
+    expect((await unconfirmed.signIn(holder.emails.estimator, PASSWORD)).status).toBe(200);
+    const inv2 = await co.owner.post('/api/members/invitations', { email: holder.emails.estimator, role: 'bookkeeper' });
+    await testDb()('user').where('email', holder.emails.estimator).update({ emailVerified: false });
+    try {
+      const r = await unconfirmed.post('/api/auth/organization/accept-invitation', { invitationId: inv2.body.id });
+      expect(r.status).toBe(403);
+    } finally {
+      await testDb()('user').where('email', holder.emails.estimator).update({ emailVerified: true });
+    }
+    const members = (await co.owner.get('/api/members')).body.members as { email: string }[];
+    expect(members.map((m) => m.email)).not.toContain(email);
+    expect(members.map((m) => m.email)).not.toContain(holder.emails.estimator);
   });
 
   it('only the owner manages members', async () => {
@@ -166,6 +230,7 @@ describe('invitations and members', () => {
     const email = uniqueEmail('both');
     const c = new Client();
     await c.post('/api/auth/sign-up/email', { name: 'Both', email, password: PASSWORD });
+    await confirmEmail(c, email);
     for (const co of [a, b]) {
       const inv = await co.owner.post('/api/members/invitations', { email, role: 'bookkeeper' });
       expect((await c.post('/api/auth/organization/accept-invitation', { invitationId: inv.body.id })).status).toBe(200);
@@ -217,5 +282,173 @@ describe('reading the session cookie', () => {
     const row = await testDb()('session').where('token', tokenOf(sliding)).first();
     expect(new Date(row.expiresAt).getTime()).toBeGreaterThan(Date.now() + 6 * 86_400_000);
     expect((await sliding.get('/api/jobs')).status).toBe(200);
+  });
+});
+
+describe("better-auth's own endpoints are closed past what the screens use", () => {
+  const orgPaths = [
+    ['POST', '/api/auth/organization/create', { name: 'Stray Co', slug: 'stray-co-x1' }],
+    ['POST', '/api/auth/organization/delete', {}],
+    ['POST', '/api/auth/organization/update-member-role', { memberId: 'x', role: ['owner', 'crew_lead'] }],
+    ['POST', '/api/auth/organization/remove-member', { memberIdOrEmail: 'x' }],
+    ['POST', '/api/auth/organization/leave', {}],
+    ['POST', '/api/auth/organization/invite-member', { email: 'x@tests.example', role: 'owner' }],
+    ['GET', '/api/auth/organization/list-members', null],
+    ['GET', '/api/auth/organization/get-full-organization', null],
+    ['POST', '/api/auth/organization/check-slug', { slug: 'thornbury-fence-demo' }],
+    ['GET', '/api/auth/get-session', null],
+    ['POST', '/api/auth/change-password', { currentPassword: PASSWORD, newPassword: 'x-new-password-1', revokeOtherSessions: false }],
+    ['POST', '/api/auth/update-user', { name: 'Renamed' }],
+    ['POST', '/api/auth/delete-user', {}],
+    ['GET', '/api/auth/no-such-thing', null],
+  ] as const;
+
+  it('answers every other path with a JSON 404, for every role', async () => {
+    const co = await makeCompany();
+    const before = await testDb()('organization').count({ n: '*' });
+    for (const role of ['owner', 'bookkeeper', 'estimator', 'crew_lead'] as const) {
+      for (const [method, path, body] of orgPaths) {
+        const r = method === 'GET' ? await co.as(role).get(path) : await co.as(role).post(path, { organizationId: co.id, ...body });
+        expect(r.status, `${method} ${path} as ${role}`).toBe(404);
+        expect(r.body.error.code, `${method} ${path} as ${role}`).toBe('NOT_FOUND');
+      }
+    }
+    expect(await testDb()('organization').count({ n: '*' })).toEqual(before);
+    expect(await testDb()('organization').where('id', co.id).first('id')).toBeTruthy();
+    // The crew lead learned no e-mail, and the roles are as they were.
+    const roles = await testDb()('member').where('organizationId', co.id).pluck('role');
+    expect(roles.sort()).toEqual(['bookkeeper', 'crew_lead', 'estimator', 'owner']);
+  });
+
+  it('creates a company only through the app, always with its settings, and lands in it', async () => {
+    const co = await makeCompany();
+    const r = await co.owner.post('/api/companies', { name: 'Second Yard Fence' });
+    expect(r.status).toBe(201);
+    expect(await testDb()('company_settings').where('organization_id', r.body.id).first()).toBeTruthy();
+    for (const path of ['/api/settings', '/api/invoices', '/api/receivables', '/api/reports/margin-by-style', '/api/calibration']) {
+      expect((await co.owner.get(path)).status, path).toBe(200);
+    }
+    for (const page of ['/', '/settings', '/invoices', '/receivables', '/margins']) {
+      expect((await co.owner.get(page)).status, page).toBe(200);
+    }
+  });
+
+  it('keeps a role exactly one of the four, whatever the caller sends or writes', async () => {
+    const co = await makeCompany();
+    const members = (await co.owner.get('/api/members')).body.members as { memberId: string; email: string }[];
+    const crew = members.find((m) => m.email === co.emails.crew_lead)!;
+    for (const role of [['owner', 'crew_lead'], 'owner,crew_lead', 'admin', 'member', '', 'Owner', null]) {
+      const r = await co.owner.patch(`/api/members/${crew.memberId}`, { role });
+      expect(r.status, JSON.stringify(role)).toBe(400);
+      expect((await co.owner.post('/api/members/invitations', { email: uniqueEmail('r'), role })).status, JSON.stringify(role)).toBe(400);
+    }
+    expect((await testDb()('member').where('id', crew.memberId).first('role')).role).toBe('crew_lead');
+    // The database refuses a list however it is written.
+    await expect(testDb()('member').where('id', crew.memberId).update({ role: 'owner,crew_lead' })).rejects.toThrow(/CONSTRAINT|check/i);
+  });
+
+  it('never removes or demotes the last owner, even when two owners try at once', async () => {
+    const co = await makeCompany();
+    const list = async () => (await co.owner.get('/api/members')).body.members as { memberId: string; email: string; role: string }[];
+    const owner = (await list()).find((m) => m.role === 'owner')!;
+    expect((await co.owner.delete(`/api/members/${owner.memberId}`)).body.error.code).toBe('LAST_OWNER');
+    // A second owner; each demotes the other at the same moment: one of them stays owner.
+    const second = (await list()).find((m) => m.email === co.emails.bookkeeper)!;
+    expect((await co.owner.patch(`/api/members/${second.memberId}`, { role: 'owner' })).status).toBe(200);
+    const [a, b] = await Promise.all([
+      co.owner.patch(`/api/members/${second.memberId}`, { role: 'estimator' }),
+      co.bookkeeper.patch(`/api/members/${owner.memberId}`, { role: 'estimator' }),
+    ]);
+    expect([a.status, b.status].sort()).toEqual([200, 422]);
+    const owners = await testDb()('member').where({ organizationId: co.id, role: 'owner' }).count({ n: '*' });
+    expect(owners[0].n).toBe(1);
+  });
+
+  it('signs a member of several companies in to the one they last worked in', async () => {
+    const a = await makeCompany('Aardvark Fence');
+    const z = await makeCompany('Zephyr Fence');
+    // The owner of Zephyr also starts a company whose name sorts first.
+    expect((await z.owner.post('/api/companies', { name: 'AAA Stray Fence' })).status).toBe(201);
+    expect((await z.owner.post('/api/companies/switch', { organizationId: z.id })).status).toBe(200);
+    const c = new Client();
+    expect((await c.signIn(z.emails.owner, PASSWORD)).status).toBe(200);
+    const cust = await z.owner.post('/api/customers', { name: 'Only in Zephyr' });
+    expect((await c.get(`/api/customers/${cust.body.id}`)).status).toBe(200);
+    // An invited person lands in the company they joined last.
+    const email = uniqueEmail('two');
+    const p = new Client();
+    await p.post('/api/auth/sign-up/email', { name: 'Two', email, password: PASSWORD });
+    await confirmEmail(p, email);
+    for (const co of [z, a]) {
+      const inv = await co.owner.post('/api/members/invitations', { email, role: 'estimator' });
+      expect((await p.post('/api/auth/organization/accept-invitation', { invitationId: inv.body.id })).status).toBe(200);
+    }
+    const later = new Client();
+    expect((await later.signIn(email, PASSWORD)).status).toBe(200);
+    const custA = await a.owner.post('/api/customers', { name: 'Only in Aardvark' });
+    expect((await later.get(`/api/customers/${custA.body.id}`)).status).toBe(200);
+  });
+});
+
+describe('passwords and where sign-in sends you', () => {
+  it('changing the password signs out every other session', async () => {
+    const co = await makeCompany();
+    const email = co.emails.estimator;
+    const here = new Client();
+    const other = new Client();
+    expect((await here.signIn(email, PASSWORD)).status).toBe(200);
+    expect((await other.signIn(email, PASSWORD)).status).toBe(200);
+    expect((await here.post('/api/account/password', { currentPassword: 'wrong-password-1', newPassword: 'a-newer-password-1' })).status).toBe(400);
+    expect((await other.get('/api/jobs')).status).toBe(200);
+    const r = await here.post('/api/account/password', { currentPassword: PASSWORD, newPassword: 'a-newer-password-1' });
+    expect(r.status).toBe(200);
+    expect((await here.get('/api/jobs')).status).toBe(200);
+    expect((await other.get('/api/jobs')).status).toBe(401);
+    expect((await co.estimator.get('/api/jobs')).status).toBe(401);
+    expect((await new Client().signIn(email, PASSWORD)).status).toBe(401);
+    expect((await new Client().signIn(email, 'a-newer-password-1')).status).toBe(200);
+  });
+
+  it('resetting the password by mail signs out every session', async () => {
+    const co = await makeCompany();
+    const email = co.emails.crew_lead;
+    expect((await co.crew_lead.get('/api/jobs')).status).toBe(200);
+    const c = new Client();
+    await c.post('/api/auth/request-password-reset', { email, redirectTo: '/reset-password' });
+    const resetMail = async () => (await mailTo(email)).find((m) => /Reset your Tallypost password/.test(m.subject));
+    await expect.poll(resetMail, { timeout: 20_000 }).toBeTruthy();
+    const mail = (await resetMail())!;
+    const link = new URL(mail.text.match(/https?:\/\/\S+/)![0]);
+    const token = new URL((await c.get(link.pathname + link.search)).headers.location!, stack().appUrl).searchParams.get('token');
+    expect((await c.post('/api/auth/reset-password', { newPassword: 'reset-password-22', token })).status).toBe(200);
+    expect((await co.crew_lead.get('/api/jobs')).status).toBe(401);
+  });
+
+  // Each is something a browser would read as another site, or as script.
+  const HOSTILE = ['//evil.example/x', '/\\evil.example/x', '/%5Cevil.example/x', '\\\\evil.example', 'https://evil.example/', 'javascript:alert(1)',
+    '/%09/evil.example', '/%0A/evil.example', '/\t/evil.example', '/%2F%2Fevil.example', ' //evil.example', 'evil.example'];
+
+  it('never sends a signed-in person to another site from ?next=', async () => {
+    const co = await makeCompany();
+    for (const next of HOSTILE) {
+      const r = await co.owner.get(`/sign-in?next=${encodeURIComponent(next)}`);
+      expect(r.status, next).toBe(302);
+      expect(r.headers.location, next).toBe('/');
+    }
+    // The raw %5C form, as the address bar would carry it.
+    const raw = await co.owner.get('/sign-in?next=/%5Cevil.example/x');
+    expect(raw.headers.location).toBe('/');
+    expect((await co.owner.get(`/sign-in?next=${encodeURIComponent('/jobs?status=won')}`)).headers.location).toBe('/jobs?status=won');
+  });
+
+  it("refuses better-auth's redirect targets that leave the site", async () => {
+    for (const target of HOSTILE) {
+      const r = await new Client().post('/api/auth/request-password-reset', { email: 'nobody@tests.example', redirectTo: target });
+      expect(r.status, target).toBe(400);
+      const s = await new Client().post('/api/auth/sign-up/email', { name: 'X', email: uniqueEmail('cb'), password: PASSWORD, callbackURL: target });
+      expect(s.status, target).toBe(400);
+      const v = await new Client().get(`/api/auth/verify-email?token=x&callbackURL=${encodeURIComponent(target)}`);
+      expect(v.status, target).toBe(400);
+    }
   });
 });

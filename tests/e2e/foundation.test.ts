@@ -2,6 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { closeBrowser, hydrated, launch, shot, signIn, watchConsole } from '../setup/browser';
 import { stack } from '../setup/stack';
+import { waitForMail } from '../setup/mail';
+import { PASSWORD, confirmLink, makeCompany, uniqueEmail } from '../setup/factory';
 
 let browser: Browser;
 const base = () => stack().appUrl;
@@ -76,6 +78,89 @@ describe('signing in as each role', () => {
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await expect.poll(() => page.getByRole('alert').first().textContent()).toContain('do not match');
+    await ctx.close();
+  });
+});
+
+describe('signing up and signing in safely', () => {
+  it('a new owner signs up, confirms the address from the mail, and lands in their company', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+    const page = await ctx.newPage();
+    const email = `e2e.owner.${Date.now().toString(36)}@tests.example`;
+    await page.goto(`${base()}/sign-up`);
+    await hydrated(page);
+    await page.getByLabel('Company name').fill('Hollow Creek Fence');
+    await page.getByLabel('Your name').fill('Dana Field');
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByLabel('Password').fill('a-good-long-password');
+    await page.getByRole('button', { name: 'Create the company' }).click();
+    await expect.poll(() => page.getByTestId('sign-up-sent').textContent()).toContain(email);
+    await shot(page, 'sign-up-check-email');
+    const mail = (await waitForMail(email)).find((m) => /Confirm your e-mail/.test(m.subject))!;
+    const link = mail.text.match(/https?:\/\/\S+\/verify-email\?\S+/)![0];
+    await page.goto(link);
+    await page.waitForURL(`${base()}/`);
+    await expect.poll(() => page.getByTestId('company-name').textContent()).toBe('Hollow Creek Fence');
+    await shot(page, 'sign-up-confirmed-dashboard');
+    await ctx.close();
+  });
+
+  it('an invited crew lead creates an account, confirms it from the mail, and joins', async () => {
+    const co = await makeCompany();
+    const email = uniqueEmail('e2e-crew');
+    const inv = await co.owner.post('/api/members/invitations', { email, role: 'crew_lead' });
+    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await ctx.newPage();
+    await page.goto(`${base()}/accept-invite/${inv.body.id}`);
+    await hydrated(page);
+    await page.getByLabel('Your name').fill('Robin Post');
+    await page.getByLabel('Password').fill('a-good-long-password');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await expect.poll(() => page.getByTestId('accept-invite-sent').textContent()).toContain(email);
+    await shot(page, 'phone-accept-invite-check-email');
+    await page.goto(await confirmLink(email));
+    await page.waitForURL(`${base()}/accept-invite/${inv.body.id}`);
+    await hydrated(page);
+    await Promise.all([page.waitForURL(`${base()}/`), page.getByRole('button', { name: `Join ${co.name}` }).click()]);
+    await page.getByTestId('crew-board').waitFor();
+    await shot(page, 'phone-accept-invite-joined');
+    await ctx.close();
+  });
+
+  it('a member changes their password on Your account; their other sessions end', async () => {
+    const co = await makeCompany();
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+    const page = await signIn(ctx, base(), co.emails.estimator, PASSWORD);
+    await page.getByTestId('whoami').click();
+    await page.waitForURL(`${base()}/account`);
+    await hydrated(page);
+    await page.getByLabel('Current password').fill(PASSWORD);
+    await page.getByLabel('New password').fill('short');
+    await page.getByRole('button', { name: 'Change the password' }).click();
+    await page.locator('#newPassword-error').waitFor();
+    await page.getByLabel('New password').fill('a-fresh-long-password');
+    await page.getByRole('button', { name: 'Change the password' }).click();
+    await expect.poll(() => page.getByRole('status').textContent()).toContain('signed out');
+    await shot(page, 'account-password-changed');
+    expect((await co.estimator.get('/api/jobs')).status).toBe(401);
+    await page.goto(`${base()}/jobs`);
+    expect(new URL(page.url()).pathname).toBe('/jobs');
+    await ctx.close();
+  });
+
+  it('after sign-in a hostile ?next= keeps the browser on this site', async () => {
+    const ctx = await browser.newContext();
+    for (const next of ['/%5Cevil.example/x', '//evil.example/x', '/%09/evil.example', 'javascript:alert(1)']) {
+      const page = await ctx.newPage();
+      await page.goto(`${base()}/sign-in?next=${next}`);
+      await hydrated(page);
+      await page.getByLabel('E-mail').fill('bookkeeper@example.com');
+      await page.getByLabel('Password').fill(stack().demoPassword);
+      await Promise.all([page.waitForURL(`${base()}/`), page.getByRole('button', { name: 'Sign in' }).click()]);
+      expect(new URL(page.url()).origin, next).toBe(base());
+      await ctx.clearCookies();
+      await page.close();
+    }
     await ctx.close();
   });
 });

@@ -13,7 +13,8 @@ export interface SinkMail {
 
 /** All mail the local sink holds for one address. */
 export async function mailTo(address: string): Promise<SinkMail[]> {
-  const res = await fetch(`${stack().mailApi}/api/email`);
+  // The sink filters by recipient itself, so a long suite's inbox is not sent over each time.
+  const res = await fetch(`${stack().mailApi}/api/email?to.address=${encodeURIComponent(address.toLowerCase())}`);
   const all = (await res.json()) as SinkMail[];
   return all.filter((m) => m.to.some((t) => t.address.toLowerCase() === address.toLowerCase()));
 }

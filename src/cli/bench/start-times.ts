@@ -58,7 +58,7 @@ export async function coldAndWarmStart(root: string): Promise<{ coldS: number; w
   try {
     const ports = { PORT: await freePort(), DB_PORT: await freePort(), SMTP_PORT: await freePort(), MAIL_WEB_PORT: await freePort(), STRIPE_FAKE_PORT: await freePort() };
     const env: NodeJS.ProcessEnv = {
-      ...Object.fromEntries(Object.entries(process.env).filter(([k]) => !/^(DATABASE_URL|APP_URL|AUTH_SECRET|SMTP_|STRIPE_|TALLYPOST_|SIGN_IN_|PORT|HOST|NODE_ENV)/.test(k))),
+      ...Object.fromEntries(Object.entries(process.env).filter(([k]) => !/^(DATABASE_URL|APP_URL|AUTH_SECRET|LINK_SIGNING_SECRET|SMTP_|STRIPE_|TALLYPOST_|SIGN_IN_|PORT|HOST|NODE_ENV)/.test(k))),
       TALLYPOST_DATA_DIR: path.join(dir, 'data'),
       TALLYPOST_DIST_DIR: path.join(dir, 'dist'),
       ...Object.fromEntries(Object.entries(ports).map(([k, v]) => [k, String(v)])),

@@ -24,3 +24,8 @@ export const inviteInput = z.strictObject({
 export const roleInput = z.strictObject({ role: z.enum(ROLES, { message: 'Choose a role.' }) });
 export const companyInput = z.strictObject({ name: z.string().trim().min(2, 'Enter the company\'s name.').max(120) });
 export const switchInput = z.strictObject({ organizationId: z.string().min(1).max(36) });
+
+export const changePasswordInput = z.strictObject({
+  currentPassword: z.string().min(1, 'Enter your current password.').max(128),
+  newPassword: password,
+}).refine((v) => v.currentPassword !== v.newPassword, { message: 'Choose a password you have not used here.', path: ['newPassword'] });

@@ -69,8 +69,10 @@ function signedToken(cookieHeader: string | null, keys: CookieKeys): string | nu
 
 // Written out once rather than built per request: it runs on every request.
 const SESSION_SQL = `SELECT s.id AS session_id, s.expiresAt AS expires_at, s.createdAt AS created_at, s.activeOrganizationId AS active_org,
-       u.id AS user_id, u.name AS user_name, u.email, o.id AS org_id, o.name AS org_name, o.slug, m.role, v.version AS data_version
+       u.id AS user_id, u.name AS user_name, u.email, o.id AS org_id, o.name AS org_name, o.slug, m.role, v.version AS data_version,
+       lc.organization_id AS last_org
   FROM session s JOIN \`user\` u ON u.id = s.userId
+  LEFT JOIN user_last_company lc ON lc.user_id = u.id
   LEFT JOIN member m ON m.userId = u.id LEFT JOIN organization o ON o.id = m.organizationId
   LEFT JOIN company_data_versions v ON v.organization_id = o.id
  WHERE s.token = ? ORDER BY o.name`;
@@ -79,6 +81,7 @@ interface SessionRow {
   session_id: string; expires_at: Date; created_at: Date; active_org: string | null;
   user_id: string; user_name: string; email: string;
   org_id: string | null; org_name: string | null; slug: string | null; role: string | null; data_version: number | null;
+  last_org: string | null;
 }
 
 /**
@@ -104,6 +107,7 @@ export async function identify(headers: Headers): Promise<RequestIdentity> {
     { id: first.session_id, createdAt: first.created_at, activeOrganizationId: first.active_org },
     { id: first.user_id, name: first.user_name, email: first.email },
     memberships,
+    first.last_org,
   );
   // The data version came with the memberships, so the report cache needs no query of its own.
   const active = who.company ? rows.find((r) => r.org_id === who.company!.id) : undefined;
@@ -119,13 +123,20 @@ async function identifyThroughAuth(headers: Headers): Promise<RequestIdentity> {
     { id: session.id, createdAt: session.createdAt, activeOrganizationId: (session as { activeOrganizationId?: string | null }).activeOrganizationId ?? null },
     { id: user.id, name: user.name, email: user.email },
     await membershipsOf(user.id),
+    await lastCompanyOf(user.id),
   );
+}
+
+async function lastCompanyOf(userId: string): Promise<string | null> {
+  const row = await db()('user_last_company').where('user_id', userId).first('organization_id');
+  return row?.organization_id ?? null;
 }
 
 async function settle(
   session: { id: string; createdAt: Date | string; activeOrganizationId: string | null },
   user: { id: string; name: string; email: string },
   memberships: Membership[],
+  lastCompany: string | null,
 ): Promise<RequestIdentity> {
   const createdAt = new Date(session.createdAt).getTime();
   if (Date.now() - createdAt > env().SESSION_MAX_AGE * 1000) {
@@ -135,9 +146,10 @@ async function settle(
   const activeId = session.activeOrganizationId;
   let active = memberships.find((m) => m.organizationId === activeId) ?? null;
   if (!active && memberships.length > 0) {
-    // No company chosen yet, or removed from the one that was: fall back to the first
-    // company the person still belongs to, and remember it on this session.
-    active = memberships[0];
+    // A new session (just signed in), or removed from the company it had: the company the
+    // person last worked in when they still belong to it, else their first by name; kept
+    // on this session.
+    active = memberships.find((m) => m.organizationId === lastCompany) ?? memberships[0];
     await db()('session').where('id', session.id).update({ activeOrganizationId: active.organizationId });
   } else if (!active && activeId) {
     await db()('session').where('id', session.id).update({ activeOrganizationId: null });

@@ -42,3 +42,33 @@ export function passwordResetMail(a: { to: string; name: string; url: string }):
     html: layout(subject, `<p>Hello ${escapeHtml(a.name)},</p><p>Someone asked to reset the password of this account. If it was you:</p>${button(a.url, 'Choose a new password')}<p>The link is good for one hour. If it was not you, ignore this e-mail.</p>`),
   };
 }
+
+export function verifyEmailMail(a: { to: string; name: string; url: string }): MailContent {
+  const subject = 'Confirm your e-mail for Tallypost';
+  return {
+    to: a.to,
+    subject,
+    text: `Hello ${a.name},\n\nConfirm that this address is yours to finish setting up your Tallypost account: ${a.url}\n\nThe link is good for 24 hours and signs you in. If you did not sign up, ignore this e-mail.`,
+    html: layout(subject, `<p>Hello ${escapeHtml(a.name)},</p><p>Confirm that this address is yours to finish setting up your Tallypost account.</p>${button(a.url, 'Confirm my e-mail')}<p>The link is good for 24 hours and signs you in. If you did not sign up, ignore this e-mail.</p>`),
+  };
+}
+
+/**
+ * To the holder of an address someone tried to sign up with again: nothing changed. An
+ * account never confirmed is told how to finish (sign in, which mails a fresh link).
+ */
+export function signUpAttemptMail(a: { to: string; name: string; confirmed: boolean; signInUrl: string; resetUrl: string }): MailContent {
+  const subject = 'Someone tried to sign up with your e-mail';
+  const what = a.confirmed
+    ? 'Someone tried to create a Tallypost account with this e-mail address, which already has one. Nothing was changed.'
+    : 'Someone tried to create a Tallypost account with this e-mail address, which already has one that was never confirmed. Nothing was changed.';
+  const next = a.confirmed
+    ? 'If it was you, sign in'
+    : 'If it was you, sign in with the password you chose and we will send a new confirmation link';
+  return {
+    to: a.to,
+    subject,
+    text: `Hello ${a.name},\n\n${what}\n\n${next}: ${a.signInUrl}\nForgot your password? Choose a new one: ${a.resetUrl}\n\nIf it was not you, you can ignore this e-mail.`,
+    html: layout(subject, `<p>Hello ${escapeHtml(a.name)},</p><p>${escapeHtml(what)}</p><p>${escapeHtml(next)}:</p>${button(a.signInUrl, 'Sign in')}<p>Forgot your password? <a href="${escapeHtml(a.resetUrl)}">Choose a new one</a>.</p><p>If it was not you, you can ignore this e-mail.</p>`),
+  };
+}

@@ -1,6 +1,7 @@
 import os from 'node:os';
 import type { Knex } from 'knex';
 import { db } from '../db.ts';
+import { env } from '../env.ts';
 import { mailer } from '../mail/mailer.ts';
 import type { AttachmentRef } from '../mail/outbox.ts';
 
@@ -20,7 +21,7 @@ export function registerPeriodic(job: Job): void {
 }
 
 /** How long a claimed mail stays with its worker before another may retry it. */
-const LOCK_SECONDS = Number(process.env.OUTBOX_LOCK_SECONDS ?? 120);
+const lockSeconds = () => env().OUTBOX_LOCK_SECONDS;
 const MAX_ATTEMPTS = 8;
 const workerId = `${os.hostname()}:${process.pid}`;
 
@@ -36,7 +37,7 @@ interface OutboxRow {
 }
 
 /** How many mails one worker claims at a time; they go out over a small SMTP pool. */
-const BATCH = Number(process.env.OUTBOX_BATCH ?? 20);
+const batch = () => env().OUTBOX_BATCH;
 
 /** Claims up to `limit` due mails with SKIP LOCKED, so several workers never take the same row. */
 async function claim(k: Knex, limit: number): Promise<OutboxRow[]> {
@@ -55,7 +56,7 @@ async function claim(k: Knex, limit: number): Promise<OutboxRow[]> {
         status: 'sending',
         attempts: trx.raw('attempts + 1'),
         locked_by: workerId,
-        locked_until: trx.raw('DATE_ADD(NOW(3), INTERVAL ? SECOND)', [LOCK_SECONDS]),
+        locked_until: trx.raw('DATE_ADD(NOW(3), INTERVAL ? SECOND)', [lockSeconds()]),
       });
     return rows;
   });
@@ -74,11 +75,11 @@ const mine = (k: Knex, id: number) => k('outbox').where({ id, status: 'sending',
 
 async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
   // Fault injection for the crash tests: die between claiming a mail and sending it.
-  if (process.env.TALLYPOST_FAULT === 'outbox-after-claim') process.exit(137);
+  if (env().TALLYPOST_FAULT === 'outbox-after-claim') process.exit(137);
   // A batch may wait behind a slow mail server: renew the lock just before this send (the
   // send is bounded by the transport's timeouts, well inside it). A row whose lock ran out
   // and went to another worker is left to that worker, so no mail goes out twice.
-  const held = await mine(k, row.id).update({ locked_until: k.raw('DATE_ADD(NOW(3), INTERVAL ? SECOND)', [LOCK_SECONDS]) });
+  const held = await mine(k, row.id).update({ locked_until: k.raw('DATE_ADD(NOW(3), INTERVAL ? SECOND)', [lockSeconds()]) });
   if (!held) return;
   try {
     const refs = JSON.parse(row.attachments || '[]') as AttachmentRef[];
@@ -92,7 +93,7 @@ async function sendOne(k: Knex, row: OutboxRow): Promise<void> {
     // the retry carries the same id and receivers can drop it as a duplicate.
     const messageId = `<outbox-${row.id}@tallypost.local>`;
     const info = await mailer().sendMail({
-      from: process.env.MAIL_FROM ?? 'Tallypost <no-reply@tallypost.test>',
+      from: env().MAIL_FROM,
       to: row.to_address,
       subject: row.subject,
       text: row.body_text,
@@ -131,7 +132,7 @@ export async function drainOutbox(k: Knex = db()): Promise<number> {
   await releaseStale(k);
   let n = 0;
   for (;;) {
-    const rows = await claim(k, BATCH);
+    const rows = await claim(k, batch());
     if (!rows.length) return n;
     const byRecipient = new Map<string, OutboxRow[]>();
     for (const row of rows) {

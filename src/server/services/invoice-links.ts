@@ -7,7 +7,7 @@ export function newNonce(): string {
 }
 
 function sign(id: number, nonce: string): string {
-  return createHmac('sha256', env().AUTH_SECRET).update(`invoice-link:${id}:${nonce}`).digest('base64url');
+  return createHmac('sha256', env().LINK_SIGNING_SECRET).update(`invoice-link:${id}:${nonce}`).digest('base64url');
 }
 
 /** The customer's token: id, nonce and an HMAC of both, so a link is unguessable and cannot be forged. */

@@ -1,7 +1,8 @@
 import { auth } from '../auth/auth.ts';
 import type { Actor } from '../http.ts';
 import { AppError, notFound } from '../../lib/errors.ts';
-import type { Role } from '../../lib/auth/permissions.ts';
+import type { Knex } from 'knex';
+import { isRole, type Role } from '../../lib/auth/permissions.ts';
 import * as members from '../repos/members.ts';
 import { db } from '../db.ts';
 import { audit } from '../repos/audit.ts';
@@ -32,40 +33,55 @@ export async function invite(actor: Actor, headers: Headers, input: { email: str
   }
 }
 
-async function ownersLeft(actor: Actor, exceptMemberId: string): Promise<number> {
-  return (await members.listMembers(actor.companyId)).filter((m) => m.role === 'owner' && m.memberId !== exceptMemberId).length;
+/**
+ * The company's members, locked for this transaction: role changes and removals in one
+ * company happen one at a time, so two owners demoting each other at once cannot leave
+ * the company with none.
+ */
+async function lockMembers(trx: Knex.Transaction, companyId: string): Promise<{ id: string; userId: string; role: string }[]> {
+  return trx('member').where('organizationId', companyId).forUpdate().select('id', 'userId', 'role');
 }
 
-export async function changeRole(actor: Actor, headers: Headers, memberId: string, role: Role) {
-  const m = await members.findMember(actor.companyId, memberId);
-  if (!m) throw notFound('That member');
-  if (m.role === 'owner' && role !== 'owner' && (await ownersLeft(actor, memberId)) === 0) {
-    throw new AppError('LAST_OWNER', 'A company needs at least one owner. Make someone else owner first.');
-  }
-  try {
-    await auth().api.updateMemberRole({ headers, body: { memberId, role, organizationId: actor.companyId } });
-  } catch (err) {
-    throw authError(err, 'The role could not be changed.');
-  }
-  await audit(db(), actor, 'member', memberId, 'role', { from: m.role, to: role });
-  return { ...m, role };
+/**
+ * Changes a member's role to exactly one of the four (the schema and a CHECK constraint
+ * refuse lists). The last owner is never demoted. better-auth's own update-member-role is
+ * closed (src/pages/api/auth/[...all].ts) and refused by its hook (auth.ts).
+ */
+export async function changeRole(actor: Actor, memberId: string, role: Role) {
+  if (!isRole(role)) throw new AppError('BAD_INPUT', 'Choose a role.', { role: 'Choose a role.' });
+  return db().transaction(async (trx) => {
+    const locked = await lockMembers(trx, actor.companyId);
+    const target = locked.find((m) => m.id === memberId);
+    if (!target) throw notFound('That member');
+    const owners = locked.filter((m) => m.role === 'owner' && m.id !== memberId).length;
+    if (target.role === 'owner' && role !== 'owner' && owners === 0) {
+      throw new AppError('LAST_OWNER', 'A company needs at least one owner. Make someone else owner first.');
+    }
+    const m = (await members.findMember(actor.companyId, memberId, trx))!;
+    if (target.role !== role) {
+      await trx('member').where({ id: memberId, organizationId: actor.companyId }).update({ role });
+      await audit(trx, actor, 'member', memberId, 'role', { from: target.role, to: role });
+    }
+    return { ...m, role };
+  });
 }
 
-export async function removeMember(actor: Actor, headers: Headers, memberId: string) {
-  const m = await members.findMember(actor.companyId, memberId);
-  if (!m) throw notFound('That member');
-  if (m.role === 'owner' && (await ownersLeft(actor, memberId)) === 0) {
-    throw new AppError('LAST_OWNER', 'A company needs at least one owner.');
-  }
-  try {
-    await auth().api.removeMember({ headers, body: { memberIdOrEmail: memberId, organizationId: actor.companyId } });
-  } catch (err) {
-    throw authError(err, 'The member could not be removed.');
-  }
-  // Their other sessions may still name this company as active; the next request of each
-  // finds no membership and drops it (see identify()), and this clears it at once.
-  await db()('session').where('userId', m.userId).whereRaw('activeOrganizationId = ?', [actor.companyId]).update({ activeOrganizationId: null });
-  await audit(db(), actor, 'member', memberId, 'remove', { email: m.email });
+/** Removes a member; never the last owner. Their sessions in this company end at once. */
+export async function removeMember(actor: Actor, memberId: string) {
+  await db().transaction(async (trx) => {
+    const locked = await lockMembers(trx, actor.companyId);
+    const target = locked.find((m) => m.id === memberId);
+    if (!target) throw notFound('That member');
+    if (target.role === 'owner' && !locked.some((m) => m.role === 'owner' && m.id !== memberId)) {
+      throw new AppError('LAST_OWNER', 'A company needs at least one owner.');
+    }
+    const m = (await members.findMember(actor.companyId, memberId, trx))!;
+    await trx('member').where({ id: memberId, organizationId: actor.companyId }).delete();
+    // Their other sessions may still name this company as active; the next request of each
+    // finds no membership and drops it (see identify()), and this clears it at once.
+    await trx('session').where('userId', target.userId).whereRaw('activeOrganizationId = ?', [actor.companyId]).update({ activeOrganizationId: null });
+    await audit(trx, actor, 'member', memberId, 'remove', { email: m.email });
+  });
 }
 
 export async function cancelInvitation(actor: Actor, headers: Headers, invitationId: string) {

@@ -7,6 +7,7 @@ import { BILLING_FIXTURES } from '../../setup/invoices';
 import { BIDS_FIXTURES } from '../../setup/bids';
 import { COSTS_FIXTURES } from '../../setup/costs';
 import { MARGINS_FIXTURES } from '../../setup/margins';
+import { AUTH_CALLERS, AUTH_PROBES, allowedKeys, betterAuthEndpoints, freshSession, type AuthCaller } from '../../setup/auth-routes';
 
 /**
  * Every API route × every role, plus signed out and a member of another company, against
@@ -44,7 +45,7 @@ const FIXTURES: Record<string, Fixture> = {
 /** Routes that are not declared with route(), and why. They are checked by their own tests. */
 const UNDECLARED: Record<string, string> = {
   '/api/health': 'public health check (tests/api/health-and-schema.test.ts)',
-  '/api/auth/[...all]': "better-auth's own routes (tests/api/auth.test.ts)",
+  '/api/auth/[...all]': "better-auth's own routes: the allow-list is checked below ('better-auth's endpoints')",
   '/api/[...rest]': 'JSON 404 for unknown API paths',
   '/api/stripe/webhook': 'signed by Stripe; verified by signature (webhook tests)',
 };
@@ -156,6 +157,53 @@ describe('permissions matrix', () => {
       }
     }
     console.log(`permissions matrix: ${rows.length} route methods × 6 callers = ${checks} checks, ${mismatches.length} mismatches`);
+    expect(mismatches).toEqual([]);
+  }, 600_000);
+});
+
+describe("better-auth's endpoints", () => {
+  const clientFor = (caller: AuthCaller): Client =>
+    caller === 'signed out' ? new Client() : caller === 'member of another company' ? b.owner : a.as(caller);
+
+  it('reach only the allow-list, each answering every caller as expected; every other path is a JSON 404', async () => {
+    const endpoints = betterAuthEndpoints();
+    const allowed = new Set(allowedKeys());
+    expect(Object.keys(AUTH_PROBES).sort()).toEqual([...allowed].sort());
+    const mismatches: string[] = [];
+    let checks = 0;
+    let closed = 0;
+    for (const ep of endpoints) {
+      for (const method of ep.methods) {
+        const key = `${method} ${ep.path}`;
+        const url = `/api/auth${ep.path.replace(/:\w+/g, 'madeUp123')}`;
+        for (const caller of AUTH_CALLERS) {
+          checks++;
+          if (allowed.has(key)) {
+            const p = AUTH_PROBES[key];
+            const c = p.ownSession ? await freshSession(caller, a, b) : clientFor(caller);
+            const r = await p.send(c, a);
+            if (r.status !== p.expect(caller)) mismatches.push(`${key} as ${caller}: got ${r.status}, want ${p.expect(caller)}`);
+          } else {
+            const c = clientFor(caller);
+            const r = method === 'GET' ? await c.get(url) : await c.request(method, url, { json: { organizationId: a.id, __matrixProbe: true } });
+            if (r.status !== 404 || (r.body as { error?: { code?: string } })?.error?.code !== 'NOT_FOUND') mismatches.push(`${key} as ${caller}: got ${r.status} ${r.text.slice(0, 80)}`);
+          }
+        }
+        if (!allowed.has(key)) closed++;
+      }
+    }
+    // Every allowed route is one better-auth really serves (a renamed one would otherwise hide).
+    for (const key of allowed) {
+      const [method, path] = key.split(' ');
+      if (!endpoints.some((e) => e.path === path && e.methods.includes(method))) mismatches.push(`${key} is allowed but better-auth has no such endpoint`);
+    }
+    // Other methods on allowed paths, and paths better-auth does not know, are 404 too.
+    for (const [method, path] of [['GET', '/sign-in/email'], ['DELETE', '/sign-out'], ['PUT', '/organization/accept-invitation'], ['GET', '/nothing-here'], ['POST', '/sign-in/email/']]) {
+      checks++;
+      const r = await a.owner.request(method, `/api/auth${path}`, method === 'GET' ? {} : { json: {} });
+      if (r.status !== 404) mismatches.push(`${method} ${path}: got ${r.status}`);
+    }
+    console.log(`better-auth endpoints: ${allowed.size} allowed, ${closed} closed (404) × ${AUTH_CALLERS.length} callers = ${checks} checks, ${mismatches.length} mismatches`);
     expect(mismatches).toEqual([]);
   }, 600_000);
 });

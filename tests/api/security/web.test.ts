@@ -1,8 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { Client } from '../../setup/client';
-import { PASSWORD, makeCompany, uniqueEmail } from '../../setup/factory';
+import { PASSWORD, confirmLink, makeCompany, uniqueEmail } from '../../setup/factory';
 import { closeTestDb, testDb } from '../../setup/db';
 import { startApp } from '../../setup/processes';
+import { stack } from '../../setup/stack';
+import { createHmac } from 'node:crypto';
 
 afterAll(closeTestDb);
 
@@ -10,13 +12,14 @@ describe('sessions and the web edge', () => {
   it('gives 20 parallel sign-ups 20 accounts and 20 companies', async () => {
     const emails = Array.from({ length: 20 }, (_, i) => uniqueEmail(`par${i}`));
     const results = await Promise.all(emails.map((email, i) => new Client().post('/api/signup', { name: `Parallel ${i}`, email, password: PASSWORD, companyName: `Parallel Fence ${i}` })));
-    expect(results.map((r) => r.status)).toEqual(Array(20).fill(201));
+    expect(results.map((r) => r.status)).toEqual(Array(20).fill(202));
     const users = await testDb()('user').whereIn('email', emails).select('id');
     expect(new Set(users.map((u) => u.id)).size).toBe(20);
-    expect(new Set(results.map((r) => r.body.company.id)).size).toBe(20);
+    const owners = await testDb()('member').whereIn('userId', users.map((u) => u.id)).andWhere('role', 'owner').select('organizationId');
+    expect(new Set(owners.map((m) => m.organizationId)).size).toBe(20);
   });
 
-  it('marks the session cookie Secure when the app is served over HTTPS', async () => {
+  it('marks the session cookie Secure and sends HSTS when the app is served over HTTPS', async () => {
     const origin = 'https://fence.example';
     const app = await startApp({ APP_URL: origin });
     try {
@@ -24,13 +27,23 @@ describe('sessions and the web edge', () => {
       const email = uniqueEmail('secure');
       const r = await c.request('POST', '/api/auth/sign-up/email', { json: { name: 'Secure', email, password: PASSWORD }, origin });
       expect(r.status).toBe(200);
-      const cookie = (r.headers['set-cookie'] ?? []).find((s) => s.includes('session_token'))!;
+      // The confirmation link (built on APP_URL) signs the person in on this server.
+      const link = new URL(await confirmLink(email));
+      expect(link.origin).toBe(origin);
+      const confirmed = await c.get(link.pathname + link.search);
+      expect(confirmed.status).toBe(302);
+      const cookie = (confirmed.headers['set-cookie'] ?? []).find((s) => s.includes('session_token'))!;
       expect(cookie).toMatch(/; Secure/i);
       expect(cookie).toMatch(/HttpOnly/i);
       expect(cookie).toMatch(/^__Secure-/);
+      for (const path of ['/sign-in', '/api/health', '/api/jobs']) {
+        expect((await new Client(app.url).get(path)).headers['strict-transport-security'], path).toBe('max-age=31536000; includeSubDomains');
+      }
     } finally {
       await app.kill();
     }
+    // Plain http on loopback (the local stack): no HSTS, which would lock browsers out of it.
+    expect((await new Client().get('/sign-in')).headers['strict-transport-security']).toBeUndefined();
   });
 
   it('ends a session at its absolute lifetime, however active it was', async () => {
@@ -94,6 +107,11 @@ describe('the customer\'s invoice link', () => {
     const token = (inv.publicUrl as string).split('/pay/')[1];
     const [id, nonce, sig] = token.split('.');
     expect(nonce).toHaveLength(43); // 32 random bytes
+    // Signed with its own key, not the session secret: knowing one gives nothing of the other.
+    const hmac = (key: string) => createHmac('sha256', key).update(`invoice-link:${id}:${nonce}`).digest('base64url');
+    expect(sig).toBe(hmac(stack().appEnv.LINK_SIGNING_SECRET));
+    expect(stack().appEnv.LINK_SIGNING_SECRET).not.toBe(stack().appEnv.AUTH_SECRET);
+    expect((await new Client().get(`/pay/${id}.${nonce}.${hmac(stack().appEnv.AUTH_SECRET)}`, { accept: 'text/html' })).status).toBe(404);
     const anyone = new Client();
     expect((await anyone.get(`/pay/${token}`, { accept: 'text/html' })).status).toBe(200);
     // A forged signature, another id with the same nonce, or a guessed nonce: all 404.

@@ -1,13 +1,10 @@
 import { useState, type SubmitEvent } from 'react';
 import { signInInput } from '../../../lib/auth/schema';
+import { nextOrHome } from '../../../lib/auth/safe-path';
 import { api } from '../ui/api';
 import { Field, FormError } from '../ui/Field';
 import { validate } from '../ui/form';
 
-/** Where to go after sign-in: only a path on this site. */
-function safeNext(next: string | null): string {
-  return next && next.startsWith('/') && !next.startsWith('//') ? next : '/';
-}
 
 export default function SignInForm({ next }: { next: string | null }) {
   const [values, setValues] = useState({ email: '', password: '' });
@@ -24,11 +21,16 @@ export default function SignInForm({ next }: { next: string | null }) {
     setBusy(true);
     const r = await api('/api/auth/sign-in/email', { body: v.data });
     if (r.ok) {
-      window.location.href = safeNext(next);
+      window.location.href = nextOrHome(next);
       return;
     }
     setBusy(false);
-    setError(r.error.status === 429 ? 'Too many attempts. Wait a minute and try again.' : r.error.status === 401 ? 'That e-mail and password do not match an account.' : r.error.message);
+    setError(
+      r.error.status === 429 ? 'Too many attempts. Wait a minute and try again.'
+        : r.error.status === 401 ? 'That e-mail and password do not match an account.'
+          : r.error.code === 'EMAIL_NOT_VERIFIED' ? `Confirm your e-mail address first: we have just sent a new link to ${v.data.email}. It signs you in.`
+            : r.error.message,
+    );
   }
 
   return (

@@ -9,6 +9,7 @@ export default function SignUpForm() {
   const [fields, setFields] = useState<Record<string, string>>({});
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const [sentTo, setSentTo] = useState<string | null>(null);
   const set = (k: keyof typeof values) => (e: { target: { value: string } }) => setValues({ ...values, [k]: e.target.value });
 
   async function submit(e: SubmitEvent) {
@@ -20,7 +21,7 @@ export default function SignUpForm() {
     setBusy(true);
     const r = await api('/api/signup', { body: v.data });
     if (r.ok) {
-      window.location.href = '/';
+      setSentTo(v.data.email);
       return;
     }
     setBusy(false);
@@ -28,6 +29,14 @@ export default function SignUpForm() {
     setError(r.error.message);
   }
 
+  if (sentTo) {
+    return (
+      <p role="status" className="rounded-md bg-moss-100 p-3 text-sm text-moss-700" data-testid="sign-up-sent">
+        Check your e-mail: we sent a link to <b>{sentTo}</b>. Open it to confirm the address; it signs you in to your
+        company. The link is good for 24 hours.
+      </p>
+    );
+  }
   return (
     <form onSubmit={submit} noValidate className="space-y-4">
       <FormError message={error} />

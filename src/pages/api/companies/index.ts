@@ -1,11 +1,11 @@
 import { route } from '../../../server/http.ts';
 import { companyInput } from '../../../lib/auth/schema.ts';
-import { createCompany } from '../../../server/services/companies.ts';
+import { createCompanyInSession } from '../../../server/services/companies.ts';
 
-/** A signed-in person starts another company (they are its owner). */
+/** A signed-in person starts another company (they are its owner) and works in it. */
 export const POST = route({
   access: 'signed-in',
   body: companyInput,
   status: 201,
-  handle: ({ ctx, body }) => createCompany(ctx.request.headers, body.name),
+  handle: ({ ctx, actor, body }) => createCompanyInSession(actor.userId, ctx.locals.sessionId ?? '', body.name),
 });

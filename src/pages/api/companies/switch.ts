@@ -6,7 +6,7 @@ export const POST = route({
   access: 'signed-in',
   body: switchInput,
   handle: async ({ ctx, actor, body }) => {
-    await switchCompany(ctx.request.headers, actor.userId, body.organizationId);
+    await switchCompany(actor.userId, ctx.locals.sessionId ?? '', body.organizationId);
     return { ok: true };
   },
 });

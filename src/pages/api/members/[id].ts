@@ -11,9 +11,9 @@ function memberId(v: string | undefined): string {
 export const PATCH = route({
   access: 'members:manage',
   body: roleInput,
-  handle: ({ ctx, actor, params, body }) => changeRole(actor, ctx.request.headers, memberId(params.id), body.role),
+  handle: ({ actor, params, body }) => changeRole(actor, memberId(params.id), body.role),
 });
 export const DELETE = route({
   access: 'members:manage',
-  handle: ({ ctx, actor, params }) => removeMember(actor, ctx.request.headers, memberId(params.id)),
+  handle: ({ actor, params }) => removeMember(actor, memberId(params.id)),
 });
